@@ -1,0 +1,7 @@
+"""Allow ``python -m aeroreview``."""
+
+import sys
+
+from aeroreview.cli import main
+
+sys.exit(main())

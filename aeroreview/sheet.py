@@ -1,0 +1,512 @@
+"""Feature sheets: load a vehicle revision from YAML, validate it, and hand out SI values.
+
+A sheet is one YAML file per vehicle revision::
+
+    id: brisa            # vehicle id: a slug, it becomes a URL and a file name
+    revision: r2
+    parent: r1           # the revision this one was derived from (optional)
+    name: Brisa GT
+    reviewed: 2026-10-14
+    reviewer: A. Reviewer
+    features:            # catalogue keys; number in the canonical unit, "27 deg", or a mapping
+      vehicle.class: fastback
+      rear.backlight_angle: 24 deg
+      dimensions.frontal_area: {value: 2.21 m^2, source: measured from the surface, note: mirrors in}
+    results: [...]       # CFD / tunnel / road results, optionally with a yaw sweep
+    waivers: [...]       # accepted findings: rule, reason, by, expires
+    notes: free text
+    attachments: [...]   # images: file, zone, caption
+
+Loading collects every problem (not just the first) as a located :class:`Problem`;
+errors raise :class:`InputError`, doubts (a value outside its typical range) are kept as
+warnings on the sheet. Nothing here ever writes to the user's file.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import difflib
+import re
+from dataclasses import dataclass, field
+from pathlib import Path, PurePosixPath
+
+from aeroreview import catalogue, yamldoc
+from aeroreview.catalogue import Feature
+from aeroreview.problems import InputError, Problem
+from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
+
+SLUG = re.compile(r"^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$")
+RULE_ID = re.compile(r"^[a-z]+\.[a-z0-9-]+$")
+IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".svg", ".webp", ".gif")
+RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
+MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
+
+TOP_LEVEL = ("id", "revision", "parent", "name", "reviewed", "reviewer",
+             "features", "results", "waivers", "notes", "attachments")
+
+
+@dataclass(frozen=True)
+class Value:
+    """One feature value: SI float (quantities), word (choices) or bool (flags), with provenance."""
+
+    value: float | str | bool
+    source: str = ""
+    note: str = ""
+
+    def display(self, item: Feature) -> str:
+        if item.kind == "quantity":
+            return format_quantity(float(self.value), item.unit)
+        return str(self.value).lower() if isinstance(self.value, bool) else str(self.value)
+
+
+@dataclass(frozen=True)
+class YawPoint:
+    yaw: float  # rad
+    cd: float
+    cl_front: float | None = None
+    cl_rear: float | None = None
+
+
+@dataclass(frozen=True)
+class Result:
+    """A CFD, wind-tunnel or road result for the revision (coefficients on the frontal area)."""
+
+    kind: str
+    label: str
+    speed: float | None  # m/s
+    cd: float
+    cl_front: float | None = None
+    cl_rear: float | None = None
+    scale: float = 1.0  # model scale, 1.0 is full size
+    reference_area: float | None = None  # m^2; None means the sheet's frontal area
+    yaw_sweep: tuple[YawPoint, ...] = ()
+
+
+@dataclass(frozen=True)
+class Waiver:
+    rule: str
+    reason: str
+    by: str = ""
+    expires: _dt.date | None = None
+    line: int = 1
+
+
+@dataclass(frozen=True)
+class Attachment:
+    file: str  # relative to the sheet's folder, checked to stay inside it
+    zone: str
+    caption: str
+
+
+@dataclass
+class Sheet:
+    """One validated vehicle revision."""
+
+    path: str
+    vehicle_id: str
+    revision: str
+    name: str
+    parent: str | None = None
+    reviewed: _dt.date | None = None
+    reviewer: str = ""
+    features: dict[str, Value] = field(default_factory=dict)
+    results: list[Result] = field(default_factory=list)
+    waivers: list[Waiver] = field(default_factory=list)
+    notes: str = ""
+    attachments: list[Attachment] = field(default_factory=list)
+    warnings: list[Problem] = field(default_factory=list)
+    line_of: dict[str, int] = field(default_factory=dict)  # feature or top-level key -> line
+
+    def get(self, key: str, default=None):
+        """The value of feature ``key`` (SI float, word or bool), or ``default`` if absent."""
+        catalogue.feature(key)  # a typo in a rule must fail loudly, not read as "missing"
+        item = self.features.get(key)
+        return default if item is None else item.value
+
+    def has(self, *keys: str) -> bool:
+        return all(self.get(key) is not None for key in keys)
+
+    @property
+    def label(self) -> str:
+        return f"{self.vehicle_id}@{self.revision}"
+
+
+def suggest(word: str, options) -> str:
+    """A did-you-mean hint for a mistyped key, or a pointer to the list of valid keys."""
+    close = difflib.get_close_matches(word, list(options), n=1, cutoff=0.6)
+    return f"did you mean '{close[0]}'?" if close else "see `aeroreview schema` for the valid keys"
+
+
+class _Checker:
+    """Walks one parsed document, collecting problems and building a :class:`Sheet`."""
+
+    def __init__(self, doc: yamldoc.Document, folder: Path):
+        self.doc = doc
+        self.folder = folder
+        self.problems: list[Problem] = []
+        self.warnings: list[Problem] = []
+
+    def error(self, path, message, hint="", key=False):
+        self.problems.append(self.doc.problem(path, message, hint, key=key))
+
+    def warn(self, path, message, hint=""):
+        self.warnings.append(self.doc.problem(path, message, hint, level="warning"))
+
+    # -- small typed readers -------------------------------------------------------
+    def text(self, data: dict, key: str, path=(), required=False, limit=MAX_TEXT) -> str:
+        value = data.get(key)
+        if value is None:
+            if required:
+                self.error(path, f"'{key}' is missing", f"add `{key}: ...`")
+            return ""
+        if isinstance(value, (int, float)) and not isinstance(value, bool):
+            value = str(value)
+        if not isinstance(value, str):
+            self.error(path + (key,), f"'{key}' must be text, got {type(value).__name__}", "write it as a quoted string")
+            return ""
+        if len(value) > limit:
+            self.error(path + (key,), f"'{key}' is {len(value):,} characters, over the limit of {limit:,}",
+                       "shorten it or attach a document")
+            return ""
+        return value
+
+    def slug(self, data: dict, key: str, required: bool) -> str:
+        value = self.text(data, key, required=required, limit=200)
+        if value and not SLUG.match(value):
+            self.error((key,), f"'{key}' must be a safe slug, got '{value}'",
+                       "use lowercase letters, digits and inner hyphens only (it becomes a URL and a file name)")
+            return ""
+        return value
+
+    def date(self, data: dict, key: str, path=()) -> _dt.date | None:
+        value = data.get(key)
+        if value is None:
+            return None
+        if isinstance(value, _dt.datetime):
+            return value.date()
+        if isinstance(value, _dt.date):
+            return value
+        self.error(path + (key,), f"'{key}' must be a date, got '{value}'", "write it as YYYY-MM-DD")
+        return None
+
+    def mapping(self, data, path, name) -> dict:
+        if data is None:
+            return {}
+        if not isinstance(data, dict):
+            self.error(path, f"'{name}' must be a mapping, got {type(data).__name__}", "write `key: value` lines under it")
+            return {}
+        return data
+
+    def sequence(self, data, path, name) -> list:
+        if data is None:
+            return []
+        if not isinstance(data, list):
+            self.error(path, f"'{name}' must be a list, got {type(data).__name__}", "start each item with '- '")
+            return []
+        return data
+
+    def unknown_keys(self, data: dict, allowed, path):
+        for key in data:
+            if key not in allowed:
+                self.error(path + (key,), f"unknown key '{key}'", suggest(str(key), allowed), key=True)
+
+    def number(self, data: dict, key: str, unit: str, path, required=False, bounds=None) -> float | None:
+        value = data.get(key)
+        if value is None:
+            if required:
+                self.error(path, f"'{key}' is missing", f"add `{key}: ...` in {unit or 'plain units'}")
+            return None
+        try:
+            si = to_si(value, unit)
+        except UnitProblem as problem:
+            self.error(path + (key,), f"'{key}': {problem}", problem.hint)
+            return None
+        if bounds and not bounds[0] <= from_si(si, unit) <= bounds[1]:
+            self.error(path + (key,), f"'{key}' = {value} is outside {bounds[0]:g} to {bounds[1]:g} {unit}".rstrip(),
+                       "check the number and its unit")
+            return None
+        return si
+
+    # -- sections ------------------------------------------------------------------
+    def features(self, data) -> tuple[dict[str, Value], dict[str, int]]:
+        data = self.mapping(data, ("features",), "features")
+        values: dict[str, Value] = {}
+        lines: dict[str, int] = {}
+        for key, raw in data.items():
+            path = ("features", key)
+            item = catalogue.BY_KEY.get(key)
+            if item is None:
+                self.error(path, f"unknown feature '{key}'", suggest(str(key), catalogue.BY_KEY), key=True)
+                continue
+            lines[key] = self.doc.where(path, key=True)[0]
+            source = note = ""
+            if isinstance(raw, dict):
+                self.unknown_keys(raw, ("value", "source", "note"), path)
+                source = self.text(raw, "source", path, limit=500)
+                note = self.text(raw, "note", path, limit=2000)
+                if "value" not in raw:
+                    self.error(path, f"'{key}' has no 'value'", "write `{value: ..., source: ...}`")
+                    continue
+                raw, path = raw["value"], path + ("value",)
+            value = self.feature_value(item, raw, path)
+            if value is not None:
+                values[key] = Value(value, source, note)
+        for item in catalogue.FEATURES:
+            if item.required and item.key not in values and item.key not in data:
+                self.error(("features",), f"required feature '{item.key}' is missing",
+                           f"add `{item.key}: ...` ({item.unit_label()})")
+        return values, lines
+
+    def feature_value(self, item: Feature, raw, path):
+        if raw is None:
+            self.error(path, f"'{item.key}' has no value", f"write a value ({item.unit_label()}) or remove the line")
+            return None
+        if item.kind == "flag":
+            if not isinstance(raw, bool):
+                self.error(path, f"'{item.key}' must be true or false, got '{raw}'", "write true or false")
+                return None
+            return raw
+        if item.kind == "choice":
+            if not isinstance(raw, str) or raw.lower() not in item.choices:
+                self.error(path, f"'{item.key}' must be one of {', '.join(item.choices)}, got '{raw}'",
+                           suggest(str(raw).lower(), item.choices))
+                return None
+            return raw.lower()
+        try:
+            si = to_si(raw, item.unit)
+        except UnitProblem as problem:
+            self.error(path, f"'{item.key}': {problem}", problem.hint)
+            return None
+        shown = from_si(si, item.unit)
+        if item.integer and shown != int(shown):
+            self.error(path, f"'{item.key}' must be a whole number, got {raw}", "write a count such as 2")
+            return None
+        low, high = item.bounds
+        if not low <= shown <= high:
+            self.error(path, f"'{item.key}' = {raw} is physically impossible (outside {low:g} to {high:g} {item.unit})".replace(" )", ")"),
+                       "check the number and its unit")
+            return None
+        if item.typical and not item.typical[0] <= shown <= item.typical[1]:
+            self.warn(path, f"'{item.key}' = {raw} is outside the typical range {item.typical_text()}",
+                      f"check it; typical range: {item.typical_source}")
+        return si
+
+    def results(self, data) -> list[Result]:
+        out = []
+        allowed = ("kind", "label", "speed", "cd", "cl_front", "cl_rear", "scale", "reference_area",
+                   "yaw_sweep", "date", "source")
+        for i, raw in enumerate(self.sequence(data, ("results",), "results")):
+            path = ("results", i)
+            raw = self.mapping(raw, path, f"results[{i}]")
+            if not raw:
+                continue
+            self.unknown_keys(raw, allowed, path)
+            kind = self.text(raw, "kind", path, required=True, limit=20)
+            if kind and kind not in RESULT_KINDS:
+                self.error(path + ("kind",), f"result kind '{kind}' is not one of {', '.join(RESULT_KINDS)}",
+                           suggest(kind, RESULT_KINDS))
+            cd = self.number(raw, "cd", "", path, required=True, bounds=(0.05, 2.0))
+            sweep = []
+            for j, point in enumerate(self.sequence(raw.get("yaw_sweep"), path + ("yaw_sweep",), "yaw_sweep")):
+                where = path + ("yaw_sweep", j)
+                point = self.mapping(point, where, f"yaw_sweep[{j}]")
+                if not point:
+                    continue
+                self.unknown_keys(point, ("yaw", "cd", "cl_front", "cl_rear"), where)
+                yaw = self.number(point, "yaw", "deg", where, required=True, bounds=(-90, 90))
+                point_cd = self.number(point, "cd", "", where, required=True, bounds=(0.05, 2.0))
+                if yaw is not None and point_cd is not None:
+                    sweep.append(YawPoint(yaw, point_cd, self.number(point, "cl_front", "", where, bounds=(-3, 3)),
+                                          self.number(point, "cl_rear", "", where, bounds=(-3, 3))))
+            self.date(raw, "date", path)
+            result = Result(
+                kind=kind, label=self.text(raw, "label", path, limit=200) or f"{kind} {i + 1}",
+                speed=self.number(raw, "speed", "km/h", path, bounds=(1, 600)), cd=cd,
+                cl_front=self.number(raw, "cl_front", "", path, bounds=(-3, 3)),
+                cl_rear=self.number(raw, "cl_rear", "", path, bounds=(-3, 3)),
+                scale=self.number(raw, "scale", "", path, bounds=(0.01, 1.0)) or 1.0,
+                reference_area=self.number(raw, "reference_area", "m^2", path, bounds=(0.01, 12)),
+                yaw_sweep=tuple(sorted(sweep, key=lambda p: p.yaw)),
+            )
+            self.text(raw, "source", path, limit=500)
+            if cd is not None and kind in RESULT_KINDS:
+                out.append(result)
+        return out
+
+    def waivers(self, data) -> list[Waiver]:
+        out = []
+        for i, raw in enumerate(self.sequence(data, ("waivers",), "waivers")):
+            path = ("waivers", i)
+            raw = self.mapping(raw, path, f"waivers[{i}]")
+            if not raw:
+                continue
+            self.unknown_keys(raw, ("rule", "reason", "by", "expires"), path)
+            rule = self.text(raw, "rule", path, required=True, limit=80)
+            if rule and not RULE_ID.match(rule):
+                self.error(path + ("rule",), f"'{rule}' is not a rule id", "rule ids read zone.name, see `aeroreview rules`")
+                rule = ""
+            reason = self.text(raw, "reason", path, required=True, limit=2000)
+            if rule and reason.strip():
+                out.append(Waiver(rule, reason, self.text(raw, "by", path, limit=200),
+                                  self.date(raw, "expires", path), self.doc.where(path)[0]))
+            elif rule and "reason" in raw:
+                self.error(path + ("reason",), "a waiver needs a reason", "say why the finding is accepted")
+        return out
+
+    def attachments(self, data) -> list[Attachment]:
+        out = []
+        for i, raw in enumerate(self.sequence(data, ("attachments",), "attachments")):
+            path = ("attachments", i)
+            raw = self.mapping(raw, path, f"attachments[{i}]")
+            if not raw:
+                continue
+            self.unknown_keys(raw, ("file", "zone", "caption"), path)
+            file = self.text(raw, "file", path, required=True, limit=300)
+            zone = self.text(raw, "zone", path, required=True, limit=40)
+            caption = self.text(raw, "caption", path, limit=1000)
+            if zone and zone not in catalogue.ZONES:
+                self.error(path + ("zone",), f"unknown zone '{zone}'", suggest(zone, catalogue.ZONES))
+            if file and self.safe_file(file, path + ("file",)):
+                out.append(Attachment(file, zone, caption))
+        return out
+
+    def safe_file(self, file: str, path) -> bool:
+        """An attachment must be an image inside the sheet's own folder tree."""
+        pure = PurePosixPath(file)
+        if "\\" in file or pure.is_absolute() or ".." in pure.parts or ":" in file:
+            self.error(path, f"attachment path '{file}' leaves the knowledge base",
+                       "give a path relative to the sheet's folder, without '..'")
+            return False
+        if pure.suffix.lower() not in IMAGE_SUFFIXES:
+            self.error(path, f"attachment '{file}' is not an image", f"attach one of {', '.join(IMAGE_SUFFIXES)}")
+            return False
+        target = self.folder / pure
+        if not target.is_file():
+            self.error(path, f"attachment '{file}' does not exist", f"looked for {target}")
+            return False
+        return True
+
+
+def _combinations(sheet: Sheet, doc: yamldoc.Document) -> list[Problem]:
+    """Physically impossible combinations of otherwise valid features."""
+    rules = (
+        (("dimensions.frontal_area", "dimensions.width", "dimensions.height"),
+         lambda a, w, h: a > w * h, "frontal area {0} is larger than width x height ({1} x {2})",
+         "the frontal area must fit inside the bounding rectangle; check the units"),
+        (("dimensions.wheelbase", "dimensions.length"), lambda wb, length: wb >= length,
+         "wheelbase {0} is not shorter than the length {1}", "check both values"),
+        (("dimensions.track_front", "dimensions.width"), lambda t, w: t > w,
+         "front track {0} is wider than the body {1}", "the track is measured between contact-patch centres"),
+        (("dimensions.track_rear", "dimensions.width"), lambda t, w: t > w,
+         "rear track {0} is wider than the body {1}", "the track is measured between contact-patch centres"),
+        (("dimensions.ground_clearance", "dimensions.height"), lambda g, h: g >= h,
+         "ground clearance {0} is not below the height {1}", "check both values and their units"),
+        (("underbody.diffuser_length", "dimensions.length"), lambda d, length: d >= length,
+         "diffuser length {0} is not shorter than the vehicle {1}", "check the units"),
+        (("sides.mirror_area", "dimensions.frontal_area"), lambda m, a: m >= a,
+         "mirror area {0} is not smaller than the frontal area {1}", "the mirror area is part of the frontal area"),
+    )
+    problems = []
+    for keys, impossible, message, hint in rules:
+        if sheet.has(*keys) and impossible(*(sheet.get(k) for k in keys)):
+            shown = [sheet.features[k].display(catalogue.feature(k)) for k in keys]
+            problems.append(doc.problem(("features", keys[0]), message.format(*shown), hint))
+    return problems
+
+
+def from_document(doc: yamldoc.Document, folder: Path) -> Sheet:
+    """Validate a parsed document; raise :class:`InputError` with every problem found."""
+    if not isinstance(doc.data, dict):
+        kind = "a list" if isinstance(doc.data, list) else f"a single {type(doc.data).__name__} value"
+        raise InputError([doc.problem((), f"the top level of a sheet must be a mapping, got {kind}",
+                                      "start with `id: ...`, `revision: ...` and `features:` lines")])
+    check = _Checker(doc, folder)
+    data = doc.data
+    check.unknown_keys(data, TOP_LEVEL, ())
+    vehicle_id = check.slug(data, "id", required=True)
+    revision = check.slug(data, "revision", required=True)
+    parent = check.slug(data, "parent", required=False) or None
+    if parent and parent == revision:
+        check.error(("parent",), "a revision cannot be its own parent", "name the revision this one came from")
+    notes = data.get("notes")
+    if isinstance(notes, list) and all(isinstance(n, str) for n in notes):
+        data = {**data, "notes": "\n\n".join(notes)}
+    if "features" not in data:
+        check.error((), "'features' is missing", "add a `features:` mapping (see `aeroreview new`)")
+    features, lines = check.features(data.get("features"))
+    sheet = Sheet(
+        path=doc.file, vehicle_id=vehicle_id, revision=revision,
+        name=check.text(data, "name", limit=120) or vehicle_id, parent=parent,
+        reviewed=check.date(data, "reviewed"), reviewer=check.text(data, "reviewer", limit=200),
+        features=features, results=check.results(data.get("results")), waivers=check.waivers(data.get("waivers")),
+        notes=check.text(data, "notes"), attachments=check.attachments(data.get("attachments")),
+        line_of={**lines, **{k: doc.where((k,), key=True)[0] for k in ("id", "revision", "parent") if k in data}},
+    )
+    check.problems.extend(_combinations(sheet, doc))
+    if check.problems:
+        raise InputError(sorted(check.problems, key=lambda p: (p.line, p.column)))
+    sheet.warnings = check.warnings
+    return sheet
+
+
+def load_sheet(path: Path | str, display: str | None = None) -> Sheet:
+    """Load and validate one sheet file."""
+    path = Path(path)
+    doc = yamldoc.load(path, display or str(path))
+    return from_document(doc, path.parent)
+
+
+@dataclass
+class Fleet:
+    """Every sheet found under some paths, and every problem met on the way."""
+
+    sheets: list[Sheet]
+    problems: list[Problem]
+
+    @property
+    def warnings(self) -> list[Problem]:
+        return [w for s in self.sheets for w in s.warnings]
+
+
+def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
+    """YAML files named by ``paths`` (files, or folders searched recursively), sorted."""
+    files, problems = [], []
+    for given in paths:
+        path = Path(given)
+        if path.is_dir():
+            files.extend(sorted(p for p in path.rglob("*") if p.suffix in (".yaml", ".yml") and p.is_file()))
+        elif path.is_file():
+            files.append(path)
+        else:
+            problems.append(Problem(str(given), 1, 1, "no such file or folder", "check the path"))
+    return files, problems
+
+
+def load_fleet(paths) -> Fleet:
+    """Load every sheet under ``paths`` and check the fleet as a whole.
+
+    Fleet-level problems: two sheets with the same (vehicle id, revision), and a parent
+    revision that no sheet of that vehicle provides.
+    """
+    files, problems = sheet_files(paths)
+    sheets: list[Sheet] = []
+    for file in files:
+        try:
+            sheets.append(load_sheet(file))
+        except InputError as error:
+            problems.extend(error.problems)
+    seen: dict[tuple[str, str], Sheet] = {}
+    for sheet in sheets:
+        key = (sheet.vehicle_id, sheet.revision)
+        if key in seen:
+            problems.append(Problem(sheet.path, sheet.line_of.get("revision", 1), 1, f"{sheet.label} is defined twice",
+                                    f"it is also defined in {seen[key].path}; give each revision its own name"))
+        else:
+            seen[key] = sheet
+    for sheet in sheets:
+        if sheet.parent and (sheet.vehicle_id, sheet.parent) not in seen:
+            known = sorted(r for v, r in seen if v == sheet.vehicle_id)
+            problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,
+                                    f"parent revision '{sheet.parent}' of {sheet.vehicle_id} does not exist",
+                                    f"known revisions: {', '.join(known) or 'none'}; {suggest(sheet.parent, known)}"))
+    return Fleet(sheets, problems)

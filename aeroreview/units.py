@@ -1,0 +1,124 @@
+"""Units at the boundary: parse what users type, hand SI floats to the core.
+
+One pint registry for the whole program. Users write ``"27 deg"``, ``"180 mm"``,
+``"130 km/h"``, ``"52 %"`` or a bare number in the unit the context names; the core only
+ever sees SI floats (m, kg, s, rad, W, J, and plain fractions).
+
+pint treats angles and percentages as dimensionless, so ``"27 %"`` would pass for an
+angle; :func:`to_si` therefore also compares the *root unit* (radian or none), which keeps
+angles and fractions apart.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from functools import lru_cache
+
+import pint
+
+UNITS = pint.UnitRegistry()
+
+_NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+
+
+class UnitProblem(ValueError):
+    """A value that cannot be read in the unit required; ``hint`` says what to write."""
+
+    def __init__(self, message: str, hint: str):
+        super().__init__(message)
+        self.hint = hint
+
+
+@lru_cache(maxsize=512)
+def _unit(text: str) -> pint.Unit:
+    return UNITS.Unit(text)
+
+
+@lru_cache(maxsize=512)
+def _root(unit: pint.Unit) -> tuple[float, str]:
+    factor, root = UNITS.get_root_units(unit)
+    return factor, str(root)
+
+
+@lru_cache(maxsize=512)
+def _conversion(unit_text: str, canonical: str) -> tuple[float, float]:
+    """Scale and offset taking a value in ``unit_text`` to the SI form of ``canonical``."""
+    unit, wanted = _unit(unit_text), _unit(canonical)
+    if _root(unit)[1] != _root(wanted)[1] or unit.dimensionality != wanted.dimensionality:
+        raise UnitProblem(
+            f"'{unit_text}' is not a unit of {describe_dimension(canonical)}",
+            f"write it in {canonical} or a compatible unit",
+        )
+    zero = UNITS.Quantity(0.0, unit).to_base_units().magnitude
+    one = UNITS.Quantity(1.0, unit).to_base_units().magnitude
+    return one - zero, zero
+
+
+def describe_dimension(canonical: str) -> str:
+    """A readable name of the physical quantity a unit measures ("length", "angle" ...)."""
+    unit = _unit(canonical)
+    root = _root(unit)[1]
+    if root == "radian":
+        return "angle"
+    if unit.dimensionless:
+        return "a plain fraction (e.g. 0.52 or 52 %)"
+    return str(unit.dimensionality).replace("[", "").replace("]", "")
+
+
+def si_unit(canonical: str) -> str:
+    """The SI unit (as text) in which the core holds a quantity given in ``canonical``."""
+    root = _root(_unit(canonical))[1]
+    return root if root != "dimensionless" else ""
+
+
+def to_si(value: object, canonical: str) -> float:
+    """Read ``value`` (a number in ``canonical``, or a string with a unit) as an SI float.
+
+    >>> round(to_si("180 mm", "mm"), 6)
+    0.18
+    >>> round(to_si(27, "deg"), 6)
+    0.471239
+    >>> to_si("52 %", "")
+    0.52
+    """
+    if isinstance(value, bool):
+        raise UnitProblem("expected a number, got true/false", f"write a number in {canonical or 'plain units'}")
+    if isinstance(value, (int, float)):
+        magnitude, unit_text = float(value), canonical
+    elif isinstance(value, str):
+        match = _NUMBER.match(value)
+        if not match:
+            raise UnitProblem(
+                f"cannot read '{value}' as a number with a unit",
+                f"write e.g. '12.5 {canonical}'" if canonical else "write a plain number, e.g. 0.52",
+            )
+        magnitude = float(match.group(1))
+        unit_text = match.group(2) or canonical
+    else:
+        raise UnitProblem(
+            f"expected a number or a string with a unit, got {type(value).__name__}",
+            f"write e.g. '12.5 {canonical}'" if canonical else "write a plain number",
+        )
+    if not math.isfinite(magnitude):
+        raise UnitProblem("the number is not finite", "write a finite number")
+    try:
+        scale, offset = _conversion(unit_text or "dimensionless", canonical or "dimensionless")
+    except UnitProblem:
+        raise
+    except Exception:  # noqa: BLE001 - pint's parser raises many types on odd text; all mean "not a unit"
+        raise UnitProblem(f"unknown unit '{unit_text}'", f"use a unit such as {canonical or '%'}") from None
+    return magnitude * scale + offset
+
+
+def from_si(value: float, canonical: str) -> float:
+    """Convert an SI float back to ``canonical`` (for display)."""
+    scale, offset = _conversion(canonical or "dimensionless", canonical or "dimensionless")
+    return (value - offset) / scale
+
+
+def format_quantity(value: float, canonical: str, digits: int = 3) -> str:
+    """Format an SI float in its canonical unit, e.g. ``27 deg`` or ``0.52``."""
+    shown = from_si(value, canonical)
+    text = f"{shown:.{digits}g}"
+    return f"{text} {canonical}" if canonical else text
