@@ -12,7 +12,7 @@ import json
 import sys
 from pathlib import Path
 
-from aeroreview import __version__, schema, template
+from aeroreview import __version__, calc_cli, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError
 from aeroreview.sheet import load_fleet
@@ -72,6 +72,8 @@ def build_parser() -> argparse.ArgumentParser:
     new.add_argument("--revision", default="r1")
     new.add_argument("-o", "--output", help="file to write (default vehicles/VEHICLE_ID/REVISION.yaml)")
     new.set_defaults(run=_cmd_new)
+
+    calc_cli.add_parser(sub)
     return parser
 
 

@@ -55,15 +55,23 @@ def _conversion(unit_text: str, canonical: str) -> tuple[float, float]:
     return one - zero, zero
 
 
+_DIMENSION_NAMES = {
+    "[length]": "length", "[mass]": "mass", "[time]": "time", "[temperature]": "temperature",
+    "[length] ** 2": "area", "[length] ** 3": "volume", "[length] / [time]": "speed",
+    "[mass] / [length] / [time] ** 2": "pressure", "[mass] * [length] ** 2 / [time] ** 2": "energy",
+    "[mass] * [length] ** 2 / [time] ** 3": "power", "[mass] * [length] / [time] ** 2": "force",
+}
+
+
 def describe_dimension(canonical: str) -> str:
     """A readable name of the physical quantity a unit measures ("length", "angle" ...)."""
     unit = _unit(canonical)
-    root = _root(unit)[1]
-    if root == "radian":
+    if _root(unit)[1] == "radian":
         return "angle"
     if unit.dimensionless:
         return "a plain fraction (e.g. 0.52 or 52 %)"
-    return str(unit.dimensionality).replace("[", "").replace("]", "")
+    text = str(unit.dimensionality)
+    return _DIMENSION_NAMES.get(text, text.replace("[", "").replace("]", ""))
 
 
 def si_unit(canonical: str) -> str:
