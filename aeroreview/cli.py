@@ -10,12 +10,15 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, calc_cli, schema, template
+from aeroreview import __version__, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError
-from aeroreview.sheet import load_fleet
+from aeroreview.rules import ZONES, all_rules
+from aeroreview.settings import FAIL_LEVELS, load_settings
+from aeroreview.sheet import load_fleet, sheet_files, suggest
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 
@@ -27,17 +30,86 @@ class _Parser(argparse.ArgumentParser):
         raise UsageError(f"{self.prog}: {message}")
 
 
+def _write_output(text: str, output: str | None, protected: list[Path]) -> None:
+    """Print ``text`` or write it to ``output`` atomically; never over an input sheet."""
+    if not output:
+        sys.stdout.write(text)
+        return
+    target = Path(output)
+    if any(target.resolve() == p.resolve() for p in protected):
+        raise UsageError(f"--output {output} is one of the input sheets; refusing to overwrite it")
+    temporary = target.with_name(f".{target.name}.tmp")
+    try:
+        temporary.write_text(text, encoding="utf-8")
+        temporary.replace(target)
+    except OSError as error:
+        raise UsageError(f"cannot write {output}: {error.strerror}") from None
+    print(f"wrote {output}", file=sys.stderr)
+
+
 def _cmd_check(args) -> int:
-    fleet = load_fleet(args.paths)
-    for warning in fleet.warnings:
-        print(warning, file=sys.stderr)
-    for problem in fleet.problems:
+    settings = load_settings(args.config)
+    fail_on = args.fail_on or settings.fail_on
+    fleet = load_fleet(args.paths or [settings.sheets_path])
+    problems = fleet.problems + review.waiver_problems(fleet)
+    bad_files = {p.file for p in problems}
+    reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
+    counted = report.new_or_worse(reviews, report.load_baseline(args.baseline)) if args.baseline else None
+    notices = fleet.warnings + [n for r in reviews for n in r.notices]
+    data = report.as_json(reviews, problems + notices, fail_on, counted)
+    if args.format == "json":
+        text = json.dumps(data, indent=2, default=str) + "\n"
+    elif args.format == "junit":
+        text = report.as_junit(data, fail_on)
+    else:
+        for warning in notices:
+            print(warning, file=sys.stderr)
+        text = report.as_text(data, color=args.output is None and sys.stdout.isatty())
+    _write_output(text, args.output, sheet_files(args.paths or [settings.sheets_path])[0])
+    for problem in problems:
         print(problem, file=sys.stderr)
-    count = len(fleet.sheets)
-    if fleet.problems:
-        print(f"{len(fleet.problems)} error(s); {count} sheet(s) valid", file=sys.stderr)
+    if problems:
         return EXIT_INPUT
-    print(f"{count} sheet(s) valid, {len(fleet.warnings)} warning(s)")
+    return EXIT_FINDINGS if any(s["failing"] for s in data["sheets"]) else EXIT_CLEAN
+
+
+def _cmd_rules(args) -> int:
+    rules = all_rules()
+    if args.format == "json":
+        print(json.dumps([_rule_json(r) for r in rules.values()], indent=2))
+        return EXIT_CLEAN
+    for rule in rules.values():
+        print(f"{rule.id:<30} {rule.severity:<9} {rule.title}")
+    print(f"{len(rules)} rules in {len({r.zone for r in rules.values()})} zones; `aeroreview explain RULE_ID` for one")
+    return EXIT_CLEAN
+
+
+def _rule_json(rule) -> dict:
+    return {"id": rule.id, "zone": rule.zone, "title": rule.title, "severity": rule.severity,
+            "needs": list(rule.needs), "applies_to": list(rule.applies_to) or "all classes",
+            "thresholds": [{"name": t.name, "default": t.default, "unit": t.unit, "description": t.description,
+                            "source": t.source.as_dict()} for t in rule.thresholds],
+            "sources": [s.as_dict() for s in rule.sources],
+            "rationale": rule.doc.get("Why it matters", ""), "fix": rule.fix, "documentation": rule.doc}
+
+
+def _cmd_explain(args) -> int:
+    rules = all_rules()
+    rule = rules.get(args.rule_id)
+    if rule is None:
+        raise UsageError(f"unknown rule '{args.rule_id}'; {suggest(args.rule_id, rules)}")
+    print(f"{rule.id}: {rule.title}\nzone: {ZONES[rule.zone]}; default severity: {rule.severity}; "
+          f"needs: {', '.join(rule.needs) or 'results only'}"
+          + (f"; applies to: {', '.join(rule.applies_to)}" if rule.applies_to else ""))
+    for heading, body in rule.doc.items():
+        print(f"\n{heading}:\n" + textwrap.fill(body, 92, initial_indent="  ", subsequent_indent="  "))
+    if rule.thresholds:
+        print("\nThresholds (override in the aeroreview section of mkdocs.yml):")
+        for t in rule.thresholds:
+            print(f"  {t.name} = {t.default}: {t.description} [{t.source.kind}: {t.source.citation}]")
+    print("\nSources:")
+    for source in rule.sources:
+        print(f"  [{source.kind}] {source.citation}")
     return EXIT_CLEAN
 
 
@@ -59,9 +131,22 @@ def build_parser() -> argparse.ArgumentParser:
     parser.add_argument("--debug", action="store_true", help="show a traceback on errors")
     sub = parser.add_subparsers(dest="command", required=True, parser_class=_Parser, metavar="COMMAND")
 
-    check = sub.add_parser("check", help="validate sheets (files or folders, searched recursively)")
-    check.add_argument("paths", nargs="+", metavar="PATH")
+    check = sub.add_parser("check", help="validate and review sheets (files or folders, searched recursively)")
+    check.add_argument("paths", nargs="*", metavar="PATH", help="sheets or folders (default: the configured sheets)")
+    check.add_argument("--format", choices=("text", "json", "junit"), default="text")
+    check.add_argument("-o", "--output", help="write the report to this file instead of stdout")
+    check.add_argument("--fail-on", choices=FAIL_LEVELS, help="lowest status that fails (default from the settings)")
+    check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this report")
+    check.add_argument("--config", help="settings file (default ./mkdocs.yml)")
     check.set_defaults(run=_cmd_check)
+
+    rules_cmd = sub.add_parser("rules", help="list the rule library")
+    rules_cmd.add_argument("--format", choices=("text", "json"), default="text")
+    rules_cmd.set_defaults(run=_cmd_rules)
+
+    explain = sub.add_parser("explain", help="print a rule's documentation, thresholds and sources")
+    explain.add_argument("rule_id", metavar="RULE_ID")
+    explain.set_defaults(run=_cmd_explain)
 
     schema_cmd = sub.add_parser("schema", help="print the JSON Schema (draft 2020-12) of a sheet")
     schema_cmd.set_defaults(run=_cmd_schema)

@@ -119,7 +119,8 @@ class Sheet:
 
     def get(self, key: str, default=None):
         """The value of feature ``key`` (SI float, word or bool), or ``default`` if absent."""
-        catalogue.feature(key)  # a typo in a rule must fail loudly, not read as "missing"
+        if key not in catalogue.BY_KEY:  # a typo in a rule must fail loudly, not read as "missing"
+            raise KeyError(f"unknown feature {key!r}")
         item = self.features.get(key)
         return default if item is None else item.value
 
@@ -482,11 +483,28 @@ def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
     return files, problems
 
 
+def _sibling_revisions(folder: Path, loaded: list[Path]) -> dict[tuple[str, str], None]:
+    """(id, revision) of the sheets beside a sheet that were not loaded (a single file was checked)."""
+    found = {}
+    done = {p.resolve() for p in loaded}
+    for path in sorted(folder.glob("*.y*ml")):
+        if path.resolve() in done:
+            continue
+        try:
+            data = yamldoc.load(path).data
+        except InputError:
+            continue
+        if isinstance(data, dict) and isinstance(data.get("id"), str) and isinstance(data.get("revision"), str):
+            found[(data["id"], data["revision"])] = None
+    return found
+
+
 def load_fleet(paths) -> Fleet:
     """Load every sheet under ``paths`` and check the fleet as a whole.
 
     Fleet-level problems: two sheets with the same (vehicle id, revision), and a parent
-    revision that no sheet of that vehicle provides.
+    revision that no sheet of that vehicle provides (among the loaded sheets, or beside
+    the sheet in its folder when a single file is checked).
     """
     files, problems = sheet_files(paths)
     sheets: list[Sheet] = []
@@ -504,6 +522,8 @@ def load_fleet(paths) -> Fleet:
         else:
             seen[key] = sheet
     for sheet in sheets:
+        if sheet.parent and (sheet.vehicle_id, sheet.parent) not in seen:
+            seen.update(_sibling_revisions(Path(sheet.path).parent, files))
         if sheet.parent and (sheet.vehicle_id, sheet.parent) not in seen:
             known = sorted(r for v, r in seen if v == sheet.vehicle_id)
             problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,

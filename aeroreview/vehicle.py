@@ -36,8 +36,8 @@ def measured_cd(sheet: Sheet) -> tuple[float, str] | None:
     return best.cd, f"{best.kind}: {best.label}"
 
 
-def vehicle_from_sheet(sheet: Sheet, cd: float | None = None) -> tuple[Vehicle, list[str]]:
-    """A road-load :class:`Vehicle` from the sheet; ``cd`` overrides the sheet's results.
+def vehicle_from_sheet(sheet: Sheet, cd: float | None = None, area: float | None = None) -> tuple[Vehicle, list[str]]:
+    """A road-load :class:`Vehicle` from the sheet; ``cd`` and ``area`` override the sheet.
 
     Returns the vehicle and the list of assumptions made. Raises ``ValueError`` when a
     value without a sound default (Cd, frontal area) is missing.
@@ -48,7 +48,7 @@ def vehicle_from_sheet(sheet: Sheet, cd: float | None = None) -> tuple[Vehicle, 
         if found is None:
             raise ValueError(f"{sheet.path}: no Cd in the sheet's results; give one (e.g. --cd 0.30)")
         cd = found[0]
-    area = sheet.get("dimensions.frontal_area")
+    area = area or sheet.get("dimensions.frontal_area")
     if area is None:
         raise ValueError(f"{sheet.path}: dimensions.frontal_area is missing; add it to the sheet")
 

@@ -26,6 +26,10 @@ MAX_VALUES = 50_000  # far above any real sheet (a few hundred values), far belo
 MAX_DEPTH = 40
 
 Path_ = tuple  # a path into the document: keys and list indexes
+# libyaml's composer when present (several times faster); the pure-Python one otherwise.
+_COMPOSER = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
+_STR = "tag:yaml.org,2002:str"
+_MERGE = "tag:yaml.org,2002:merge"
 
 
 @dataclass
@@ -77,18 +81,23 @@ def read_text(path: Path, display: str | None = None) -> str:
                       "save the file as UTF-8", line, column) from None
 
 
-def parse(text: str, file: str) -> Document:
-    """Parse YAML ``text`` into a :class:`Document`; raise :class:`InputError` on any problem."""
+def parse(text: str, file: str, lenient_tags: bool = False) -> Document:
+    """Parse YAML ``text`` into a :class:`Document`; raise :class:`InputError` on any problem.
+
+    ``lenient_tags`` reads unknown tags (``!!python/name:...`` in an mkdocs.yml) as their
+    text instead of refusing them; nothing is ever executed either way.
+    """
     if not text.strip():
         raise _refuse(file, "file is empty", "start from `aeroreview new VEHICLE_ID --class CLASS`")
     loader = None
     try:
-        loader = yaml.SafeLoader(text)
+        loader = _COMPOSER(text)
         node = loader.get_single_node()
     except yaml.reader.ReaderError as error:
         line = text.count("\n", 0, error.position) + 1
         column = error.position - (text.rfind("\n", 0, error.position) + 1) + 1
-        raise _refuse(file, f"file holds a control character ({error.character!r}) YAML does not allow",
+        code = error.character if isinstance(error.character, int) else ord(error.character)
+        raise _refuse(file, f"file holds a control character (U+{code:04X}) that YAML does not allow",
                       "remove it; sheets are plain text", line, column) from None
     except yaml.MarkedYAMLError as error:
         mark = error.problem_mark or error.context_mark
@@ -102,23 +111,24 @@ def parse(text: str, file: str) -> Document:
             loader.dispose()
     if node is None:
         raise _refuse(file, "file holds no YAML document", "start from `aeroreview new VEHICLE_ID --class CLASS`")
-    builder = _Builder(file, yaml.SafeLoader(""))
+    builder = _Builder(file, yaml.SafeLoader(""), lenient_tags)
     data = builder.build(node, (), 0, ())
     return Document(file, data, builder.marks, builder.key_marks)
 
 
-def load(path: Path, display: str | None = None) -> Document:
+def load(path: Path, display: str | None = None, lenient_tags: bool = False) -> Document:
     """Read and parse one YAML file."""
     name = display or str(path)
-    return parse(read_text(path, name), name)
+    return parse(read_text(path, name), name, lenient_tags)
 
 
 class _Builder:
     """Turns composed nodes into plain values, counting them to defeat alias bombs."""
 
-    def __init__(self, file: str, constructor: yaml.SafeLoader):
+    def __init__(self, file: str, constructor: yaml.SafeLoader, lenient_tags: bool = False):
         self.file = file
         self.constructor = constructor
+        self.lenient_tags = lenient_tags
         self.marks: dict[Path_, tuple[int, int]] = {}
         self.key_marks: dict[Path_, tuple[int, int]] = {}
         self.count = 0
@@ -140,9 +150,13 @@ class _Builder:
         if path is not None:
             self.marks[path] = (node.start_mark.line + 1, node.start_mark.column + 1)
         if isinstance(node, yaml.ScalarNode):
+            if node.tag == _STR:
+                return node.value  # the common case, without the constructor's dispatch
             try:
                 return self.constructor.construct_object(node)
             except (yaml.constructor.ConstructorError, ValueError) as error:
+                if self.lenient_tags:
+                    return node.value
                 raise self._fail(node, f"cannot read value: {error}", "quote the value if it is text") from None
         active = active + (id(node),)
         if isinstance(node, yaml.SequenceNode):
@@ -152,12 +166,21 @@ class _Builder:
         raise self._fail(node, "unsupported YAML node", "use plain mappings, lists and scalars")
 
     def _mapping(self, node: yaml.MappingNode, path: Path_, depth: int, active: tuple) -> dict:
-        self.constructor.flatten_mapping(node)
         result: dict = {}
+        merged: dict = {}  # "<<: *base" merge keys: explicit keys win over merged ones
         for key_node, value_node in node.value:
+            if key_node.tag == _MERGE:
+                value = self.build(value_node, path + ("<<",), depth + 1, active)
+                sources = value if isinstance(value, list) else [value]
+                if not all(isinstance(source, dict) for source in sources):
+                    raise self._fail(value_node, "a merge key (<<) needs a mapping or a list of mappings",
+                                     "write <<: *anchor where the anchor names a mapping")
+                for source in reversed(sources):
+                    merged.update(source)
+                continue
             if not isinstance(key_node, yaml.ScalarNode):
                 raise self._fail(key_node, "mapping keys must be plain text", "write the key as a word")
-            key = self.build(key_node, None, depth + 1, active)
+            key = key_node.value if key_node.tag == _STR else self.build(key_node, None, depth + 1, active)
             if not isinstance(key, (str, int, float)) or isinstance(key, bool):
                 key = str(key)
             if key in result:
@@ -165,4 +188,6 @@ class _Builder:
                                  "keep one of them; the later one would silently win")
             self.key_marks[path + (key,)] = (key_node.start_mark.line + 1, key_node.start_mark.column + 1)
             result[key] = self.build(value_node, path + (key,), depth + 1, active)
+        for key, value in merged.items():
+            result.setdefault(key, value)
         return result

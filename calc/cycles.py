@@ -12,7 +12,7 @@ equals the GTR's convention (the sum of the 1 Hz speed samples times 1 s).
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import lru_cache
+from functools import cached_property, lru_cache
 from importlib import resources
 
 import numpy as np
@@ -44,6 +44,17 @@ class Cycle:
     def distance(self) -> float:
         """Distance [m]: the trapezoidal integral of speed over time."""
         return float(np.trapezoid(self.speed, dx=self.dt))
+
+    @cached_property
+    def intervals(self) -> dict[str, np.ndarray]:
+        """Per interval between samples: mean speed [m/s], acceleration [m/s^2], distance [m],
+        and the weights the road load sums (computed once per cycle)."""
+        v1, v2 = self.speed[:-1], self.speed[1:]
+        mean = 0.5 * (v1 + v2)
+        step = mean * self.dt
+        return {"mean": mean, "accel": (v2 - v1) / self.dt, "step": step,
+                "moving_step": np.where(mean > 0, step, 0.0), "v2_step": mean**2 * step,
+                "accel_step": (v2 - v1) / self.dt * step}
 
     def phase_summary(self) -> list[dict]:
         """Name, duration [s], distance [m] and maximum speed [m/s] of each phase."""
@@ -80,6 +91,7 @@ def wltc_class3b() -> Cycle:
     return Cycle("wltc-3b", speed_kmh / 3.6, phases, WLTC_SOURCE)
 
 
+@lru_cache(maxsize=64)
 def constant_speed(speed: float, distance: float = 100_000.0) -> Cycle:
     """A steady cycle at ``speed`` [m/s] covering ``distance`` [m] (no start, no stop).
 

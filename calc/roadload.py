@@ -131,20 +131,17 @@ def cycle_energy(cycle: Cycle, vehicle: Vehicle, density: float) -> Energy:
     >>> round(energy.kwh_per_100km, 2), round(energy.aero_share, 3)
     (14.53, 0.663)
     """
-    v1, v2 = cycle.speed[:-1], cycle.speed[1:]
-    mean = 0.5 * (v1 + v2)
-    accel = (v2 - v1) / cycle.dt
-    step = mean * cycle.dt  # m per interval
-    moving = (mean > 0).astype(float)
-    rolling = vehicle.mass * G0 * vehicle.crr * moving * step
-    aero = 0.5 * density * vehicle.cd * vehicle.area * mean**2 * step
-    wheel = rolling + aero + vehicle.rotating_mass_factor * vehicle.mass * accel * step
-    traction = float(wheel[wheel > 0].sum())
-    braking = float(-wheel[wheel < 0].sum())
+    parts = cycle.intervals
+    rolling = vehicle.mass * G0 * vehicle.crr * parts["moving_step"]
+    aero = 0.5 * density * vehicle.cd * vehicle.area * parts["v2_step"]
+    wheel = rolling + aero + vehicle.rotating_mass_factor * vehicle.mass * parts["accel_step"]
+    total = float(wheel.sum())
+    traction = float(np.maximum(wheel, 0.0).sum())
+    braking = traction - total
     recovered = vehicle.regen_efficiency * braking
     battery_side = traction / vehicle.drivetrain_efficiency - recovered
     source = battery_side / vehicle.engine_efficiency if vehicle.burns_fuel else battery_side
-    return Energy(float(step.sum()), traction, float(rolling.sum()), float(aero.sum()), braking, recovered,
+    return Energy(float(parts["step"].sum()), traction, float(rolling.sum()), float(aero.sum()), braking, recovered,
                   source, vehicle.burns_fuel, vehicle.fuel_heating_value)
 
 
@@ -162,8 +159,11 @@ def range_km(energy: Energy, vehicle: Vehicle) -> float | None:
     return vehicle.battery / KWH / energy.kwh_per_100km * 100.0
 
 
-def drag_sensitivity(cycle: Cycle, vehicle: Vehicle, density: float, n_counts: float = 10.0) -> dict:
+def drag_sensitivity(cycle: Cycle, vehicle: Vehicle, density: float, n_counts: float = 10.0,
+                     base: Energy | None = None) -> dict:
     """Change of energy per 100 km [kWh], fuel per 100 km [L] and range [km] when Cd rises by ``n_counts``.
+
+    ``base`` is the energy of ``vehicle`` on ``cycle`` when the caller already has it.
 
     Example: the car of :func:`cycle_energy` at steady 100 km/h: 10 counts add
     0.010 x 2.2 x 472.6 N x 100 km / 0.9 = 0.321 kWh per 100 km.
@@ -172,7 +172,7 @@ def drag_sensitivity(cycle: Cycle, vehicle: Vehicle, density: float, n_counts: f
     >>> round(drag_sensitivity(constant_speed(100 / 3.6), car, 1.225)["kwh_per_100km"], 3)
     0.321
     """
-    base = cycle_energy(cycle, vehicle, density)
+    base = base or cycle_energy(cycle, vehicle, density)
     worse_vehicle = replace(vehicle, cd=vehicle.cd + float(cd_from_counts(n_counts)))
     worse = cycle_energy(cycle, worse_vehicle, density)
     out = {"kwh_per_100km": worse.kwh_per_100km - base.kwh_per_100km}
@@ -186,7 +186,8 @@ def drag_sensitivity(cycle: Cycle, vehicle: Vehicle, density: float, n_counts: f
 STEADY_SPEEDS_KMH = (100, 120, 130)  # the motorway speeds reviewers quote (common practice)
 
 
-def sensitivities(cycle: Cycle, vehicle: Vehicle, density: float, n_counts: float = 10.0) -> dict[str, dict]:
+def sensitivities(cycle: Cycle, vehicle: Vehicle, density: float, n_counts: float = 10.0,
+                  base: Energy | None = None) -> dict[str, dict]:
     """:func:`drag_sensitivity` on ``cycle`` and at steady 100, 120 and 130 km/h [kWh, L, km per n counts].
 
     Example: at steady 130 km/h the car of :func:`cycle_energy` pays 0.542 kWh per 100 km
@@ -196,7 +197,7 @@ def sensitivities(cycle: Cycle, vehicle: Vehicle, density: float, n_counts: floa
     >>> round(sensitivities(constant_speed(100 / 3.6), car, 1.225)["constant-130"]["kwh_per_100km"], 3)
     0.542
     """
-    out = {cycle.name: drag_sensitivity(cycle, vehicle, density, n_counts)}
+    out = {cycle.name: drag_sensitivity(cycle, vehicle, density, n_counts, base)}
     for kmh in STEADY_SPEEDS_KMH:
         out[f"constant-{kmh}"] = drag_sensitivity(constant_speed(kmh / 3.6), vehicle, density, n_counts)
     return out

@@ -29,7 +29,7 @@ def replace(old: str, new: str) -> str:
 def test_minimal_sheet_is_valid(cli, write_sheet):
     run = cli("check", write_sheet(MINIMAL))
     assert run.code == 0, run.err
-    assert "1 sheet(s) valid" in run.out
+    assert "1 revision(s) reviewed" in run.out
 
 
 def test_yaml_syntax_error(cli, write_sheet):
@@ -193,10 +193,10 @@ def test_waiver_needs_a_reason(cli, write_sheet):
 
 
 def test_typical_range_gives_a_warning_not_an_error(cli, write_sheet):
-    path = write_sheet(MINIMAL + "  underbody.diffuser_angle: 25 deg\n")
+    path = write_sheet(MINIMAL + "  front.hood_angle: 25 deg\n")
     run = cli("check", path)
     assert run.code == 0
-    assert f"{path}:10:29: warning: 'underbody.diffuser_angle' = 25 deg is outside the typical range" in run.err
+    assert f"{path}:10:21: warning: 'front.hood_angle' = 25 deg is outside the typical range" in run.err
 
 
 def test_debug_shows_a_traceback_only_when_asked(cli, write_sheet):

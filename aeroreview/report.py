@@ -1,0 +1,170 @@
+"""Reports of a fleet review: readable text, JSON, and JUnit XML for CI systems.
+
+All three are built from the same :func:`as_json` data, so they never disagree.
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import xml.etree.ElementTree as ET
+from pathlib import Path
+
+from rich.console import Console
+from rich.markup import escape
+
+from aeroreview.problems import InputError, Problem
+from aeroreview.review import ADDITIVITY_NOTE, Finding, Review, failing
+from aeroreview.rules import NOT_ASSESSED, ZONES
+from aeroreview.settings import status_rank
+
+STYLE = {"pass": "green", "advisory": "cyan", "warning": "yellow", "failure": "bold red", NOT_ASSESSED: "dim"}
+
+
+def finding_json(finding: Finding) -> dict:
+    verdict, rule = finding.verdict, finding.rule
+    estimate = None
+    if finding.counts or verdict.cl_front or verdict.cl_rear:
+        low, high = finding.counts or (0.0, 0.0)
+        estimate = {"cd_counts_low": low, "cd_counts_high": high,
+                    "cl_front_change": verdict.cl_front, "cl_rear_change": verdict.cl_rear}
+    return {
+        "rule": rule.id, "zone": rule.zone, "title": rule.title, "status": finding.status,
+        "severity": finding.severity, "message": verdict.message, "measured": verdict.measured,
+        "limit": verdict.limit, "margin": verdict.margin, "estimate": estimate,
+        "consequences": finding.consequences, "fix": rule.fix if finding.status not in ("pass", NOT_ASSESSED) else "",
+        "sources": [s.as_dict() for s in rule.sources], "missing": list(verdict.missing), "waiver": finding.waiver,
+    }
+
+
+def review_json(review: Review, fail_on: str, counted: set | None = None) -> dict:
+    sheet = review.sheet
+    gate = failing(review, fail_on)
+    if counted is not None:
+        gate = [f for f in gate if (sheet.vehicle_id, sheet.revision, f.rule.id) in counted]
+    return {
+        "file": sheet.path, "vehicle": sheet.vehicle_id, "revision": sheet.revision, "name": sheet.name,
+        "parent": sheet.parent, "class": sheet.get("vehicle.class"),
+        "reviewed": sheet.reviewed.isoformat() if sheet.reviewed else None,
+        "score": None if review.score is None else round(review.score, 1), "coverage": round(review.coverage, 3),
+        "zones": {z.zone: {"score": None if z.score is None else round(z.score, 1), "coverage": round(z.coverage, 3),
+                           "assessed": z.assessed, "applicable": z.applicable} for z in review.zones.values()},
+        "recoverable_counts": {"low": review.recoverable[0], "high": review.recoverable[1], "note": ADDITIVITY_NOTE},
+        "ranked_fixes": [f.rule.id for f in review.ranked_fixes],
+        "key_numbers": review.key_numbers, "assumptions": review.assumptions,
+        "failing": [f.rule.id for f in gate],
+        "findings": [finding_json(f) for f in review.findings],
+        "notices": [n.as_dict() for n in review.notices],
+    }
+
+
+def as_json(reviews: list[Review], problems: list[Problem], fail_on: str, counted: set | None = None) -> dict:
+    return {"sheets": [review_json(r, fail_on, counted) for r in reviews],
+            "errors": [p.as_dict() for p in problems if p.level == "error"],
+            "warnings": [p.as_dict() for p in problems if p.level != "error"]}
+
+
+def _fmt_counts(counts) -> str:
+    return f"{counts[0]:g}-{counts[1]:g} counts" if counts else ""
+
+
+def as_text(data: dict, color: bool) -> str:
+    """A terminal report: per revision, findings grouped by zone; passes summarised."""
+    buffer = io.StringIO()
+    console = Console(file=buffer, force_terminal=color, no_color=not color, soft_wrap=True, highlight=False)
+    for sheet in data["sheets"]:
+        score = "-" if sheet["score"] is None else f"{sheet['score']:.0f}"
+        console.print(f"[bold]{escape(sheet['vehicle'])}@{escape(sheet['revision'])}[/] {escape(sheet['file'])}  "
+                      f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %), recoverable "
+                      f"{sheet['recoverable_counts']['low']:g}-{sheet['recoverable_counts']['high']:g} counts")
+        for zone, title in ZONES.items():
+            items = [f for f in sheet["findings"] if f["zone"] == zone]
+            if not items:
+                continue
+            zone_score = sheet["zones"][zone]
+            shown = "-" if zone_score["score"] is None else f"{zone_score['score']:.0f}"
+            passes = sum(f["status"] == "pass" for f in items)
+            unassessed = [f["rule"] for f in items if f["status"] == NOT_ASSESSED]
+            console.print(f"  [bold]{title}[/] {shown}/100 (coverage {zone_score['coverage'] * 100:.0f} %), "
+                          f"{passes} pass")
+            for f in items:
+                if f["status"] in ("pass", NOT_ASSESSED):
+                    continue
+                waived = f" [dim](waived: {escape(f['waiver']['reason'])})[/]" if f["waiver"] and \
+                    f["waiver"]["status"] == "active" else ""
+                estimate = f"; {_fmt_counts((f['estimate']['cd_counts_low'], f['estimate']['cd_counts_high']))}" \
+                    if f["estimate"] and f["estimate"]["cd_counts_high"] else ""
+                measured = f" ({escape(f['measured'])}, limit {escape(f['limit'])})" if f["measured"] and f["limit"] else ""
+                console.print(f"    [{STYLE[f['status']]}]{f['status']:<9}[/] {f['rule']}: {escape(f['message'])}"
+                              f"{measured}{estimate}{waived}")
+            if unassessed:
+                console.print(f"    [dim]not assessed: {', '.join(unassessed)}[/]")
+        for notice in sheet["notices"]:
+            console.print(f"  [yellow]notice[/] {escape(notice['message'])}; {escape(notice['hint'])}")
+        if sheet["failing"]:
+            console.print(f"  [bold red]fails the gate:[/] {', '.join(sheet['failing'])}")
+        console.print()
+    total_failing = sum(len(s["failing"]) for s in data["sheets"])
+    console.print(f"{len(data['sheets'])} revision(s) reviewed, {total_failing} finding(s) fail the gate, "
+                  f"{len(data['errors'])} input error(s); recoverable totals: {ADDITIVITY_NOTE}")
+    return buffer.getvalue()
+
+
+def as_junit(data: dict, fail_on: str) -> str:
+    """JUnit XML: one test suite per revision, one test case per rule."""
+    suites = ET.Element("testsuites", name="aeroreview")
+    for sheet in data["sheets"]:
+        suite = ET.SubElement(suites, "testsuite", name=f"{sheet['vehicle']}@{sheet['revision']}",
+                              tests=str(len(sheet["findings"])), failures=str(len(sheet["failing"])),
+                              skipped=str(sum(f["status"] == NOT_ASSESSED for f in sheet["findings"])), file=sheet["file"])
+        for f in sheet["findings"]:
+            case = ET.SubElement(suite, "testcase", name=f["rule"], classname=f"{sheet['vehicle']}.{sheet['revision']}.{f['zone']}")
+            text = f"{f['status']}: {f['message']}" + (f" (measured {f['measured']}, limit {f['limit']})"
+                                                       if f["measured"] and f["limit"] else "")
+            if f["rule"] in sheet["failing"]:
+                failure = ET.SubElement(case, "failure", message=text, type=f["status"])
+                failure.text = f"fix: {f['fix']}"
+            elif f["status"] == NOT_ASSESSED:
+                ET.SubElement(case, "skipped", message=text)
+            else:
+                ET.SubElement(case, "system-out").text = text
+    if data["errors"]:
+        suite = ET.SubElement(suites, "testsuite", name="input", tests=str(len(data["errors"])),
+                              failures="0", errors=str(len(data["errors"])))
+        for problem in data["errors"]:
+            case = ET.SubElement(suite, "testcase", name=f"{problem['file']}:{problem['line']}", classname="input")
+            ET.SubElement(case, "error", message=str(Problem(**problem)))
+    ET.indent(suites)
+    return ET.tostring(suites, encoding="unicode", xml_declaration=True) + "\n"
+
+
+def load_baseline(path: str) -> dict[tuple, int]:
+    """Statuses of a previous JSON report, by (vehicle, revision, rule) and by (vehicle, rule)."""
+    try:
+        data = json.loads(Path(path).read_text(encoding="utf-8"))
+        ranks: dict[tuple, int] = {}
+        for sheet in data["sheets"]:
+            for finding in sheet["findings"]:
+                rank = status_rank(finding["status"])
+                ranks[(sheet["vehicle"], sheet["revision"], finding["rule"])] = rank
+                key = (sheet["vehicle"], finding["rule"])
+                ranks[key] = max(rank, ranks.get(key, -1))
+        return ranks
+    except OSError as error:
+        raise InputError([Problem(path, 1, 1, f"cannot read the baseline: {error.strerror}", "check the path")]) from None
+    except (ValueError, KeyError, TypeError) as error:
+        raise InputError([Problem(path, 1, 1, f"not an aeroreview JSON report ({type(error).__name__}: {error})",
+                                  "make it with `aeroreview check --format json --output FILE`")]) from None
+
+
+def new_or_worse(reviews: list[Review], baseline: dict[tuple, int]) -> set:
+    """(vehicle, revision, rule) of findings worse than the baseline (new revisions compare by vehicle)."""
+    out = set()
+    for review in reviews:
+        sheet = review.sheet
+        for finding in review.findings:
+            before = baseline.get((sheet.vehicle_id, sheet.revision, finding.rule.id),
+                                  baseline.get((sheet.vehicle_id, finding.rule.id), -1))
+            if status_rank(finding.status) > before:
+                out.add((sheet.vehicle_id, sheet.revision, finding.rule.id))
+    return out

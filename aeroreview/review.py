@@ -1,0 +1,234 @@
+"""The review: every enabled rule on a sheet, scored, costed and ranked.
+
+A :class:`Review` holds the findings (one per applicable rule), the zone and overall
+scores with their coverage (the share of applicable rules that could be assessed: a
+sparse sheet never looks perfect), the recoverable drag counts, the fixes ranked by
+benefit, and the revision's key numbers. Every finding with an effect carries its
+consequences in the sheet's own terms: watts at the reference speed, kWh per 100 km on
+the configured cycle, and km of range (electric) or litres per 100 km (fuel).
+
+Scores: each assessed finding earns points by status (pass 1, advisory 0.8, warning 0.4,
+failure 0); a zone's score is 100 x the mean of its points. Waived findings keep their
+real status in the score (a waiver accepts a finding, it does not fix it) but do not fail
+the gate.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+from dataclasses import dataclass, field
+
+from aeroreview.calc.cycles import cycle_by_name
+from aeroreview.calc.forces import drag_force
+from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivities
+from aeroreview.problems import Problem
+from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict, all_rules
+from aeroreview.rules.data import CLASS_CD
+from aeroreview.rules.stability import axle_figures
+from aeroreview.settings import Settings, status_rank
+from aeroreview.sheet import Fleet, Sheet, suggest
+from aeroreview.vehicle import measured_cd, vehicle_from_sheet
+
+POINTS = {"pass": 1.0, "advisory": 0.8, "warning": 0.4, "failure": 0.0}  # score weights (our convention)
+ADDITIVITY_NOTE = ("effects do not simply add: fixes interact, so the total is an upper-bound indication, "
+                   "not a prediction")
+
+
+@dataclass
+class Finding:
+    rule: Rule
+    status: str  # pass, advisory, warning, failure, not assessed
+    severity: str
+    verdict: Verdict
+    waiver: dict | None = None  # {"status": "active"|"expired", "reason", "by", "expires"}
+    consequences: dict | None = None
+
+    @property
+    def waived(self) -> bool:
+        return bool(self.waiver and self.waiver["status"] == "active")
+
+    @property
+    def counts(self) -> tuple[float, float] | None:
+        if self.status in ("pass", NOT_ASSESSED):
+            return None
+        return self.verdict.counts
+
+    @property
+    def benefit(self) -> float:
+        """Midpoint of the recoverable counts, for ranking fixes."""
+        return sum(self.counts) / 2 if self.counts else 0.0
+
+
+@dataclass
+class ZoneScore:
+    zone: str
+    score: float | None  # None when nothing in the zone could be assessed
+    assessed: int
+    applicable: int
+
+    @property
+    def coverage(self) -> float:
+        return self.assessed / self.applicable if self.applicable else 0.0
+
+
+@dataclass
+class Review:
+    sheet: Sheet
+    findings: list[Finding]
+    zones: dict[str, ZoneScore]
+    score: float | None
+    coverage: float
+    recoverable: tuple[float, float]
+    key_numbers: dict
+    assumptions: list[str] = field(default_factory=list)
+    notices: list[Problem] = field(default_factory=list)
+
+    @property
+    def ranked_fixes(self) -> list[Finding]:
+        return sorted((f for f in self.findings if f.counts), key=lambda f: (-f.benefit, f.rule.id))
+
+    def counts_by_status(self) -> dict[str, int]:
+        out = {status: 0 for status in (*STATUSES, NOT_ASSESSED)}
+        for finding in self.findings:
+            out[finding.status] += 1
+        return out
+
+
+def _status(level: str, severity: str) -> str:
+    if level in ("pass", NOT_ASSESSED):
+        return level
+    if level == "major":
+        return severity
+    return STATUSES[max(1, STATUSES.index(severity) - 1)]
+
+
+def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str) -> Finding:
+    """One rule on one sheet; missing features give "not assessed", never an exception."""
+    missing = tuple(key for key in rule.needs if key not in sheet.features)
+    if missing:
+        verdict = Verdict(NOT_ASSESSED, f"not assessed: missing {', '.join(missing)}", missing=missing)
+    else:
+        verdict = rule.check(sheet, context)
+    return Finding(rule, _status(verdict.level, severity), severity, verdict)
+
+
+def _vehicle(sheet: Sheet) -> tuple[Vehicle, dict, list[str]]:
+    """The road-load vehicle of a sheet; the Cd and area estimated from the class when absent."""
+    assumptions = []
+    found = measured_cd(sheet)
+    vehicle_class = sheet.get("vehicle.class")
+    if found is None:
+        low, high = CLASS_CD[vehicle_class]
+        cd, source, estimated = round((low + high) / 2, 3), f"class midpoint for a {vehicle_class}", True
+        assumptions.append(f"Cd = {cd:.3f}, the middle of the usual {vehicle_class} range (no result in the sheet)")
+    else:
+        cd, source = found
+        estimated = source.startswith("estimate")
+    area = sheet.get("dimensions.frontal_area")
+    if area is None:
+        area = FRONTAL_AREA_FACTOR * sheet.get("dimensions.width") * sheet.get("dimensions.height")
+        assumptions.append(f"frontal area = {FRONTAL_AREA_FACTOR} x width x height = {area:.2f} m^2 (from memory)")
+    vehicle, more = vehicle_from_sheet(sheet, cd, area)
+    return vehicle, {"cd": cd, "cd_source": source, "cd_estimated": estimated, "area": area}, assumptions + more
+
+
+def _key_numbers(sheet: Sheet, settings: Settings, context: Context, vehicle: Vehicle, cd_info: dict) -> dict:
+    cycle = cycle_by_name(settings.cycle)
+    energy = cycle_energy(cycle, vehicle, context.density)
+    drag = float(drag_force(vehicle.cd, vehicle.area, settings.reference_speed, context.density))
+    numbers = {
+        **cd_info, "cda": vehicle.cd * vehicle.area, "reference_speed_km_h": settings.reference_speed * 3.6,
+        "drag_N": drag, "drag_power_kW": drag * settings.reference_speed / 1000, "cycle": cycle.name,
+        "energy_kWh_per_100km": energy.kwh_per_100km, "aero_share": energy.aero_share,
+        "energy_breakdown_kWh": {"rolling": energy.rolling / 3.6e6, "aero": energy.aero / 3.6e6,
+                                 "braking": energy.braking / 3.6e6, "recovered": energy.recovered / 3.6e6},
+        "litres_per_100km": energy.litres_per_100km, "range_km": range_km(energy, vehicle),
+        "per_10_counts": sensitivities(cycle, vehicle, context.density, 10.0, energy),
+        "lift_reference": axle_figures(sheet, context, settings.reference_speed),
+        "lift_top_speed": axle_figures(sheet, context, sheet.get("powertrain.top_speed"))
+        if sheet.has("powertrain.top_speed") else None,
+    }
+    return numbers
+
+
+def _consequences(counts: tuple[float, float], per_count: dict, power_per_count: float) -> dict:
+    low, high = counts
+    out = {"power_W_at_reference_speed": [power_per_count * low, power_per_count * high],
+           "energy_kWh_per_100km": [per_count["kwh_per_100km"] * low, per_count["kwh_per_100km"] * high]}
+    if per_count.get("range_km") is not None:
+        out["range_km"] = [-per_count["range_km"] * low, -per_count["range_km"] * high]
+    if per_count.get("litres_per_100km") is not None:
+        out["litres_per_100km"] = [per_count["litres_per_100km"] * low, per_count["litres_per_100km"] * high]
+    return out
+
+
+def _apply_waivers(sheet: Sheet, findings: dict[str, Finding], today: _dt.date) -> list[Problem]:
+    notices = []
+    for waiver in sheet.waivers:
+        finding = findings.get(waiver.rule)
+        if finding is None:
+            continue  # a disabled or inapplicable rule: nothing to waive
+        expired = waiver.expires is not None and waiver.expires < today
+        finding.waiver = {"status": "expired" if expired else "active", "reason": waiver.reason, "by": waiver.by,
+                          "expires": waiver.expires.isoformat() if waiver.expires else None}
+        if expired:
+            notices.append(Problem(sheet.path, waiver.line, 1, f"the waiver for {waiver.rule} expired on "
+                                   f"{waiver.expires.isoformat()} and no longer applies",
+                                   "renew it with a new date and reason, or fix the finding", "warning"))
+        elif finding.status in ("pass", NOT_ASSESSED):
+            notices.append(Problem(sheet.path, waiver.line, 1, f"the waiver for {waiver.rule} is not needed: "
+                                   f"the rule reports '{finding.status}'", "remove the waiver", "warning"))
+    return notices
+
+
+def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None) -> Review:
+    """Review one validated sheet."""
+    today = today or _dt.date.today()
+    air = settings.air()
+    vehicle_class = sheet.get("vehicle.class")
+    findings = {rule.id: run_rule(rule, sheet, context, severity)
+                for rule, context, severity in settings.rule_plan if rule.applies(vehicle_class)}
+    notices = _apply_waivers(sheet, findings, today)
+
+    context = Context({}, settings.reference_speed, air.density, air.kinematic_viscosity)
+    vehicle, cd_info, assumptions = _vehicle(sheet)
+    numbers = _key_numbers(sheet, settings, context, vehicle, cd_info)
+    # Per count: a tenth of the 10-count sensitivity (the energy is nearly linear in Cd).
+    per_count = {k: (v / 10 if v is not None else None) for k, v in numbers["per_10_counts"][numbers["cycle"]].items()}
+    power_per_count = float(drag_force(0.001, vehicle.area, settings.reference_speed, air.density)) \
+        * settings.reference_speed
+    for finding in findings.values():
+        if finding.counts:
+            finding.consequences = _consequences(finding.counts, per_count, power_per_count)
+
+    zones = {}
+    for zone in ZONES:
+        in_zone = [f for f in findings.values() if f.rule.zone == zone]
+        assessed = [f for f in in_zone if f.status != NOT_ASSESSED]
+        score = 100 * sum(POINTS[f.status] for f in assessed) / len(assessed) if assessed else None
+        zones[zone] = ZoneScore(zone, score, len(assessed), len(in_zone))
+    assessed = [f for f in findings.values() if f.status != NOT_ASSESSED]
+    score = 100 * sum(POINTS[f.status] for f in assessed) / len(assessed) if assessed else None
+    costed = [f.counts for f in findings.values() if f.counts]
+    recoverable = (round(sum(c[0] for c in costed), 1), round(sum(c[1] for c in costed), 1))
+    return Review(sheet, list(findings.values()), zones, score, len(assessed) / len(findings) if findings else 0.0,
+                  recoverable, numbers, assumptions, notices)
+
+
+def waiver_problems(fleet: Fleet) -> list[Problem]:
+    """Waivers naming a rule that does not exist are input errors."""
+    rules = all_rules()
+    problems = []
+    for sheet in fleet.sheets:
+        for waiver in sheet.waivers:
+            if waiver.rule not in rules:
+                problems.append(Problem(sheet.path, waiver.line, 1, f"waiver for unknown rule '{waiver.rule}'",
+                                        suggest(waiver.rule, rules)))
+    return problems
+
+
+def failing(review: Review, fail_on: str) -> list[Finding]:
+    """Findings at or above the fail level that no active waiver covers."""
+    if fail_on == "never":
+        return []
+    return [f for f in review.findings if status_rank(f.status) >= status_rank(fail_on) and not f.waived]

@@ -1,0 +1,246 @@
+"""aeroreview.rules: the team's aerodynamic knowledge as executable checks.
+
+One function per rule, in the module of its zone, registered with :func:`rule`. The
+decorator carries the metadata (id ``zone.slug``, title, default severity, the features
+the rule needs, its thresholds with units and sources, the sources of its effect estimate);
+the function's docstring is the rule's documentation, with the same four sections on every
+rule: ``What it checks:``, ``Why it matters:``, ``How to fix:``, ``Known limits:``.
+
+A rule is pure: it receives the sheet and a :class:`Context` (its thresholds as SI floats,
+the review conditions) and returns a :class:`Verdict`. It never raises on missing data: the
+framework reports "not assessed" when a needed feature is absent, and a rule that needs
+something else (a result with lift coefficients, say) returns :func:`not_assessed`.
+
+Verdict levels are ``pass``, ``minor`` and ``major``; the review turns them into a status
+from the rule's severity (set per rule, overridable in the settings): ``major`` takes the
+severity itself, ``minor`` the level below it. One mechanism serves every rule, and a team
+that raises a rule to ``failure`` raises both of its bands.
+"""
+
+from __future__ import annotations
+
+import functools
+import inspect
+import math
+import re
+from dataclasses import dataclass
+from typing import Callable
+
+from aeroreview.units import format_quantity, to_si
+
+STATUSES = ("pass", "advisory", "warning", "failure")  # in rising order of concern
+NOT_ASSESSED = "not assessed"
+SEVERITIES = ("advisory", "warning", "failure")
+SOURCE_KINDS = ("published", "standard", "common practice", "from memory")
+ZONES = {
+    "front": "Front",
+    "windshield": "Windshield and A-pillars",
+    "rear": "Roof and rear",
+    "sides": "Sides and mirrors",
+    "underbody": "Underbody and diffuser",
+    "wheels": "Wheels and wheelhouses",
+    "cooling": "Cooling and internal flow",
+    "stability": "Lift and stability",
+    "data": "Data quality",
+}
+DOC_SECTIONS = ("What it checks", "Why it matters", "How to fix", "Known limits")
+
+
+@dataclass(frozen=True)
+class Source:
+    """Where a number or a rule comes from, and how far to trust it."""
+
+    citation: str
+    kind: str
+
+    def __post_init__(self):
+        if self.kind not in SOURCE_KINDS:
+            raise ValueError(f"source kind must be one of {SOURCE_KINDS}")
+
+    def as_dict(self) -> dict:
+        return {"citation": self.citation, "kind": self.kind}
+
+
+COMMON = Source("common practice in production-car aerodynamics", "common practice")
+HUCHO = Source("Hucho (ed.), Aerodynamics of Road Vehicles, 4th ed., SAE 1998; recalled, not checked page by page",
+               "from memory")
+
+
+@dataclass(frozen=True)
+class Threshold:
+    """A named, unit-bearing limit that a team may override in its settings."""
+
+    name: str
+    default: str  # with its unit, e.g. "26 deg"; "" unit means a plain number
+    unit: str
+    description: str
+    source: Source
+
+    def parse(self, value) -> float:
+        return to_si(value, self.unit)
+
+    def show(self, si_value: float) -> str:
+        return format_quantity(si_value, self.unit)
+
+
+@dataclass(frozen=True)
+class Verdict:
+    """What a rule found. ``counts`` is the drag a fix would recover (low, high)."""
+
+    level: str  # "pass", "minor", "major", or "not assessed"
+    message: str
+    measured: str | None = None
+    limit: str | None = None
+    margin: str | None = None
+    counts: tuple[float, float] | None = None
+    cl_front: float | None = None  # change of axle lift coefficient a fix would bring
+    cl_rear: float | None = None
+    missing: tuple[str, ...] = ()
+    details: dict | None = None
+
+
+def passed(message: str, **extra) -> Verdict:
+    return Verdict("pass", message, **extra)
+
+
+def minor(message: str, **extra) -> Verdict:
+    return Verdict("minor", message, **extra)
+
+
+def major(message: str, **extra) -> Verdict:
+    return Verdict("major", message, **extra)
+
+
+def not_assessed(message: str, missing=()) -> Verdict:
+    return Verdict(NOT_ASSESSED, message, missing=tuple(missing))
+
+
+@dataclass(frozen=True)
+class Context:
+    """What a rule may use beside the sheet: its thresholds (SI) and the review conditions."""
+
+    thresholds: dict[str, float]
+    reference_speed: float  # m/s
+    density: float  # kg/m^3
+    kinematic_viscosity: float  # m^2/s
+
+    def __getitem__(self, name: str) -> float:
+        return self.thresholds[name]
+
+
+@dataclass(frozen=True)
+class Rule:
+    id: str
+    zone: str
+    title: str
+    severity: str
+    needs: tuple[str, ...]
+    thresholds: tuple[Threshold, ...]
+    sources: tuple[Source, ...]
+    check: Callable
+    applies_to: tuple[str, ...] = ()  # vehicle classes; empty means every class
+    figure: str | None = None  # name of a reference figure the site can draw
+
+    @property
+    def doc(self) -> dict[str, str]:
+        """The docstring's four sections, by heading."""
+        return parse_doc(self.check.__doc__ or "")
+
+    @property
+    def fix(self) -> str:
+        return self.doc.get("How to fix", "")
+
+    def threshold(self, name: str) -> Threshold:
+        for item in self.thresholds:
+            if item.name == name:
+                return item
+        raise KeyError(name)
+
+    def defaults(self) -> dict[str, float]:
+        return {t.name: t.parse(t.default) for t in self.thresholds}
+
+    def applies(self, vehicle_class: str | None) -> bool:
+        return not self.applies_to or vehicle_class in self.applies_to
+
+
+_SECTION = re.compile(r"^(%s):\s*" % "|".join(DOC_SECTIONS), re.M)
+
+
+def parse_doc(text: str) -> dict[str, str]:
+    """Split a rule docstring into its sections (``What it checks: ...`` and so on)."""
+    text = inspect.cleandoc(text)
+    parts = _SECTION.split(text)
+    sections = {}
+    for heading, body in zip(parts[1::2], parts[2::2]):
+        sections[heading] = " ".join(body.split())
+    return sections
+
+
+REGISTRY: dict[str, Rule] = {}
+
+
+def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=(), applies_to=(), figure=None):
+    """Register the decorated function as a rule (see the module docstring)."""
+    zone = id.split(".", 1)[0]
+
+    def register(function):
+        if zone not in ZONES or not re.fullmatch(r"[a-z]+\.[a-z0-9-]+", id):
+            raise ValueError(f"bad rule id {id!r}")
+        if severity not in SEVERITIES:
+            raise ValueError(f"{id}: severity must be one of {SEVERITIES}")
+        if id in REGISTRY:
+            raise ValueError(f"rule {id} registered twice")
+        REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), tuple(sources), function,
+                            tuple(applies_to), figure)
+        return function
+
+    return register
+
+
+def all_rules() -> dict[str, Rule]:
+    """Every registered rule, by id, in zone order."""
+    return _ordered(len(REGISTRY))
+
+
+@functools.lru_cache(maxsize=1)
+def _ordered(size: int) -> dict[str, Rule]:
+    order = list(ZONES)
+    return dict(sorted(REGISTRY.items(), key=lambda item: (order.index(item[1].zone), item[0])))
+
+
+FRONTAL_AREA_FACTOR = 0.84  # A / (width x height) of a passenger car, about 0.81-0.87 (from memory, Hucho 1998 ch. 4)
+
+
+def body_scale(sheet) -> float | None:
+    """sqrt(frontal area) [m], the length that edge radii are compared with.
+
+    Falls back on 0.84 x width x height when the frontal area is not given.
+    """
+    area = sheet.get("dimensions.frontal_area")
+    if area is None and sheet.has("dimensions.width", "dimensions.height"):
+        area = FRONTAL_AREA_FACTOR * sheet.get("dimensions.width") * sheet.get("dimensions.height")
+    return math.sqrt(area) if area else None
+
+
+def show(value: float, unit: str) -> str:
+    """An SI value in ``unit`` for a message."""
+    return format_quantity(value, unit)
+
+
+def counts_range(low: float, high: float) -> tuple[float, float]:
+    """A drag-count range, rounded to tenths and never negative."""
+    return (round(max(0.0, low), 1), round(max(0.0, high), 1))
+
+
+# The zone modules register their rules on import.
+from aeroreview.rules import (  # noqa: E402,F401
+    cooling,
+    data,
+    front,
+    rear,
+    sides,
+    stability,
+    underbody,
+    wheels,
+    windshield,
+)

@@ -1,0 +1,221 @@
+"""Roof and rear: backlight, tapers and the edges where the flow leaves the body."""
+
+from __future__ import annotations
+
+import math
+
+from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd
+from aeroreview.rules import COMMON, HUCHO, Source, Threshold, body_scale, counts_range, major, minor, passed, rule
+
+AHMED = Source(AHMED_SOURCE + ": critical slant angle about 30 deg, drag peak just below it", "published")
+RADIUS_SOURCE = Source("Thacker, Aubrun, Leroy and Devinant, Exp. Fluids 53 (2012): rounding the roof-to-slant edge "
+                       "of the Ahmed body changes the slant flow regime; threshold recalled", "from memory")
+TAPER_SOURCE = Source("Hucho 1998, ch. 4, boat-tailing: drag falls with taper angle up to about 15 deg, beyond "
+                      "which the flow separates from the taper; recalled", "from memory")
+
+
+@rule("rear.backlight-angle", "Backlight angle against the Ahmed critical region", "failure",
+      needs=("rear.backlight_angle",),
+      thresholds=(
+          Threshold("critical_low", "26 deg", "deg", "lower edge of the critical slant region", AHMED),
+          Threshold("critical_high", "34 deg", "deg", "upper edge of the critical slant region", AHMED),
+          Threshold("rising_low", "21 deg", "deg", "angle above which drag rises toward the peak", AHMED),
+          Threshold("generous_radius", "0.15", "", "roof-to-backlight radius / sqrt(A) that steadies the flow",
+                    RADIUS_SOURCE),
+      ),
+      sources=(AHMED, RADIUS_SOURCE,
+               Source("effect: 20-60 % of the Ahmed-curve drag step; production bodies respond less than the "
+                      "Ahmed body (from memory)", "from memory")),
+      applies_to=("sedan", "fastback", "hatchback", "estate", "sports"), figure="ahmed")
+def backlight_angle(sheet, ctx):
+    """
+    What it checks: where the backlight (rear window) angle lies on the Ahmed-body drag
+    curve, and whether a generous roof-to-backlight radius offsets a risky angle.
+
+    Why it matters: on a slanted rear, drag rises with slant angle as the C-pillar vortices
+    strengthen, peaks just below about 30 deg, then drops abruptly when the flow separates
+    from the whole slant. Near that critical angle the flow can switch between the two
+    states with yaw, speed or a small shape change: high drag, high rear lift, and
+    unstable, speed-dependent behaviour. A large roof-to-backlight radius keeps the flow
+    attached and weakens the switch.
+
+    How to fix: move the backlight angle out of the 26-34 deg region (below about 21 deg
+    for an attached fastback flow, or above 34 deg for a clean notchback or squareback
+    separation), or enlarge the roof-to-backlight radius (r / sqrt(A) of 0.15 or more) and
+    add a defined separation edge at the end of the backlight or a decklid kick-up.
+
+    Known limits: the Ahmed body is a simple bluff body; a production car's C-pillar shape,
+    side taper and decklid move the critical angle by several degrees. The effect estimate
+    scales the Ahmed drag step and is an order of magnitude, not a prediction.
+    """
+    degrees = math.degrees(sheet.get("rear.backlight_angle"))
+    low, high = math.degrees(ctx["critical_low"]), math.degrees(ctx["critical_high"])
+    rising = math.degrees(ctx["rising_low"])
+    radius = sheet.get("rear.roof_backlight_radius")
+    scale = body_scale(sheet)
+    generous = radius is not None and scale is not None and radius / scale >= ctx["generous_radius"]
+    radius_text = (f"; roof radius r / sqrt(A) = {radius / scale:.2f}" if radius is not None and scale else
+                   "; roof radius not given")
+    measured = f"{degrees:.1f} deg{radius_text}"
+    if degrees > 40:
+        return passed("the backlight is steep enough for a clean squareback separation", measured=measured,
+                      limit=f"outside {low:.0f}-{high:.0f} deg")
+    step = float(ahmed_cd(degrees) - min(ahmed_cd(min(rising, degrees)), ahmed_cd(max(high + 1, 35.0))))
+    counts = counts_range(200 * step, 600 * step)
+    if low <= degrees <= high:
+        margin = f"{min(degrees - low, high - degrees):.1f} deg inside the region"
+        if generous:
+            return minor("the backlight lies in the critical region, steadied by a generous roof radius",
+                         measured=measured, limit=f"outside {low:.0f}-{high:.0f} deg", margin=margin,
+                         counts=counts, cl_rear=-0.03)
+        return major("the backlight lies in the critical region of the Ahmed curve: high drag and a flow that can "
+                     "switch state", measured=measured, limit=f"outside {low:.0f}-{high:.0f} deg", margin=margin,
+                     counts=counts, cl_rear=-0.05)
+    if rising < degrees < low and not generous:
+        return minor("the backlight is on the rising part of the Ahmed curve, close to the critical region",
+                     measured=measured, limit=f"<= {rising:.0f} deg or a generous roof radius",
+                     margin=f"{low - degrees:.1f} deg below the region", counts=counts, cl_rear=-0.02)
+    return passed("the backlight angle is clear of the critical region", measured=measured,
+                  limit=f"outside {low:.0f}-{high:.0f} deg")
+
+
+def _taper(sheet, ctx, key: str, where: str):
+    degrees = math.degrees(sheet.get(key))
+    useful, separation = math.degrees(ctx["useful"]), math.degrees(ctx["separation"])
+    measured = f"{degrees:.1f} deg"
+    if degrees > separation:
+        return major(f"the {where} taper is steeper than the flow can follow: separation returns", measured=measured,
+                     limit=f"{useful:.0f}-{separation:.0f} deg", margin=f"{degrees - separation:+.1f} deg",
+                     counts=counts_range(3, 12))
+    if degrees < useful:
+        return minor(f"the {where} has little or no taper: free drag reduction left on the table", measured=measured,
+                     limit=f"{useful:.0f}-{separation:.0f} deg", margin=f"{degrees - useful:+.1f} deg",
+                     counts=counts_range(0.8 * (useful + 5 - degrees), 2.0 * (useful + 5 - degrees)))
+    return passed(f"the {where} taper is in the useful range", measured=measured,
+                  limit=f"{useful:.0f}-{separation:.0f} deg")
+
+
+_TAPER_THRESHOLDS = (
+    Threshold("useful", "4 deg", "deg", "taper below which little pressure is recovered", TAPER_SOURCE),
+    Threshold("separation", "16 deg", "deg", "taper above which the flow separates from it", TAPER_SOURCE),
+)
+
+
+@rule("rear.side-taper", "Rear plan-view taper (boat-tailing)", "warning",
+      needs=("rear.side_taper_angle",), thresholds=_TAPER_THRESHOLDS,
+      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")))
+def side_taper(sheet, ctx):
+    """
+    What it checks: the plan-view taper of the body sides over the last part of the body.
+
+    Why it matters: tapering the rear in plan view shrinks the wake and raises the base
+    pressure; drag falls with taper angle up to about 15 deg. Steeper than that, the flow
+    cannot follow the surface, separates at the start of the taper, and the gain is lost.
+
+    How to fix: taper the rear quarters and lamps by 5-15 deg over the last 300 mm or more,
+    ending in a sharp separation edge; above 16 deg, flatten the taper or shorten it and add
+    an edge where it begins.
+
+    Known limits: one angle describes the taper; its length and the curvature where it
+    starts matter as much.
+    """
+    return _taper(sheet, ctx, "rear.side_taper_angle", "side")
+
+
+@rule("rear.roof-taper", "Roof drop toward the rear (side-view boat-tailing)", "warning",
+      needs=("rear.roof_taper_angle",), thresholds=_TAPER_THRESHOLDS,
+      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
+      applies_to=("suv", "estate", "hatchback", "van", "pickup"))
+def roof_taper(sheet, ctx):
+    """
+    What it checks: the side-view drop of the roof over its last part on square-backed
+    bodies (SUV, estate, hatchback, van, pickup cab).
+
+    Why it matters: as on the sides, a moderate roof drop shrinks the wake and raises base
+    pressure; beyond about 15 deg the flow separates and the drop only adds rear lift.
+
+    How to fix: drop the roof or the roof spoiler by 5-15 deg over its last 300 mm, ending
+    in a sharp edge.
+
+    Known limits: on fastbacks and sedans the backlight rule judges the roof end instead.
+    """
+    return _taper(sheet, ctx, "rear.roof_taper_angle", "roof")
+
+
+@rule("rear.separation-edge", "Defined separation edges at the rear", "warning",
+      needs=("rear.separation_edge_radius",),
+      thresholds=(Threshold("radius", "10 mm", "mm", "edge radius above which the separation line wanders", COMMON),),
+      sources=(COMMON, Source("effect: 3-12 counts; from memory", "from memory")))
+def separation_edge(sheet, ctx):
+    """
+    What it checks: that the rear edges where the flow should leave the body (tail lamp
+    corners, decklid end, roof spoiler end) are sharp.
+
+    Why it matters: a rounded rear edge lets the flow wrap around it; the separation line
+    then moves with speed and yaw, the wake grows and the base pressure falls.
+
+    How to fix: make the rear edges sharp (radius under 5-10 mm) along the whole perimeter
+    of the base; lamp and bumper parting lines can carry the edge.
+
+    Known limits: one radius for the whole perimeter; a locally rounded corner matters less.
+    """
+    radius = sheet.get("rear.separation_edge_radius")
+    if radius > ctx["radius"]:
+        return major("the rear edges are rounded: the separation line is not fixed", measured=f"{radius * 1000:.0f} mm",
+                     limit=f"<= {ctx['radius'] * 1000:.0f} mm", margin=f"{(radius - ctx['radius']) * 1000:+.0f} mm",
+                     counts=counts_range(3, 12))
+    return passed("the rear edges fix the separation line", measured=f"{radius * 1000:.0f} mm",
+                  limit=f"<= {ctx['radius'] * 1000:.0f} mm")
+
+
+@rule("rear.spoiler", "Rear spoiler or kick-up height", "advisory",
+      needs=("rear.spoiler_height",),
+      thresholds=(Threshold("minimum", "10 mm", "mm", "height below which a kick-up does little", COMMON),
+                  Threshold("maximum", "80 mm", "mm", "height above which the spoiler's own drag dominates", HUCHO)),
+      sources=(HUCHO, Source("effect: 2-8 counts and 0.02-0.06 less rear lift; from memory", "from memory")))
+def spoiler(sheet, ctx):
+    """
+    What it checks: the height of the rear spoiler or decklid kick-up above the local surface.
+
+    Why it matters: a small kick-up at the trailing edge raises the base pressure and cuts
+    rear lift; a tall spoiler produces more downforce but pays for it in drag.
+
+    How to fix: add a kick-up or spoiler lip of 10-40 mm at the decklid or roof end; above
+    80 mm, lower it unless the rear lift target demands it.
+
+    Known limits: the best height depends on the backlight and decklid; check rear lift
+    and stability before and after any change.
+    """
+    height = sheet.get("rear.spoiler_height")
+    measured = f"{height * 1000:.0f} mm"
+    limits = f"{ctx['minimum'] * 1000:.0f}-{ctx['maximum'] * 1000:.0f} mm"
+    if height < ctx["minimum"]:
+        return minor("no effective kick-up or spoiler at the rear edge", measured=measured, limit=limits,
+                     counts=counts_range(2, 8), cl_rear=-0.04)
+    if height > ctx["maximum"]:
+        return minor("the spoiler is tall: check that its drag is paid for by the rear lift target",
+                     measured=measured, limit=limits, counts=counts_range(2, 6))
+    return passed("the rear kick-up height is in the useful range", measured=measured, limit=limits)
+
+
+@rule("rear.roof-rails", "Roof rails", "warning",
+      needs=("rear.roof_rails",),
+      sources=(Source("effect: raised rails 5-15 counts; from memory (published production-car comparisons)",
+                      "from memory"),))
+def roof_rails(sheet, ctx):
+    """
+    What it checks: whether the roof rails stand on feet in the flow.
+
+    Why it matters: raised rails add frontal area high on the body, where the flow is
+    fastest, and disturb the roof boundary layer that the rear end depends on.
+
+    How to fix: use flush rails integrated into the roof, or offer raised rails as an
+    accessory only.
+
+    Known limits: the estimate is for rails without cross bars; bars and loads cost far more.
+    """
+    rails = sheet.get("rear.roof_rails")
+    if rails == "raised":
+        return major("raised roof rails stand in the fastest flow on the body", measured="raised", limit="flush or none",
+                     counts=counts_range(5, 15))
+    return passed("no raised roof rails", measured=rails)

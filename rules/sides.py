@@ -1,0 +1,118 @@
+"""Sides and mirrors: what stands out of the body side into the flow."""
+
+from __future__ import annotations
+
+from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
+
+MIRROR_CD = (0.4, 0.6)  # drag coefficient of a mirror head on its own frontal area (from memory, Hucho 1998 ch. 4)
+
+
+@rule("sides.mirror-area", "Mirror frontal area against the vehicle's", "warning",
+      needs=("sides.mirror_area", "dimensions.frontal_area"),
+      thresholds=(Threshold("share", "1.6 %", "%", "mirror area / frontal area above which mirrors are large",
+                            COMMON),),
+      sources=(Source("mirror head Cd 0.4-0.6 on its own area, so mirrors cost 1000 x Cd_m x A_m / A counts; "
+                      "from memory (Hucho 1998, ch. 4)", "from memory"),
+               Source("camera pods replacing mirrors: typical production figures 5-10 counts; from memory",
+                      "from memory")))
+def mirror_area(sheet, ctx):
+    """
+    What it checks: the frontal area of both mirror housings as a share of the vehicle's
+    frontal area.
+
+    Why it matters: a mirror is a small bluff body in the fast flow beside the A-pillar;
+    with a drag coefficient of about 0.5 on its own area it costs counts in proportion to
+    its area, and its wake runs along the side glass.
+
+    How to fix: shrink the housing to the legal field of view, shape it with a sharp
+    trailing edge and a tapered base, or replace the mirrors with cameras where the local
+    regulations allow it.
+
+    Known limits: the interference with the A-pillar vortex can add or remove drag beyond
+    the isolated estimate.
+    """
+    if sheet.get("sides.mirror_kind") == "none":
+        return passed("no exterior mirrors", measured="none")
+    area, frontal = sheet.get("sides.mirror_area"), sheet.get("dimensions.frontal_area")
+    share = area / frontal
+    cost = (1000 * MIRROR_CD[0] * area / frontal, 1000 * MIRROR_CD[1] * area / frontal)
+    measured = f"{share * 100:.2f} % of A ({area * 1e4:.0f} cm^2)"
+    if share > ctx["share"]:
+        target = ctx["share"] * frontal
+        saving = (1000 * MIRROR_CD[0] * (area - target) / frontal, 1000 * MIRROR_CD[1] * (area - target) / frontal)
+        return major(f"the mirrors are large; they cost about {cost[0]:.0f}-{cost[1]:.0f} counts in all",
+                     measured=measured, limit=f"<= {ctx['share'] * 100:.1f} %",
+                     margin=f"{(share - ctx['share']) * 100:+.2f} %", counts=counts_range(*saving))
+    return passed(f"mirror size is moderate (about {cost[0]:.0f}-{cost[1]:.0f} counts in all)", measured=measured,
+                  limit=f"<= {ctx['share'] * 100:.1f} %")
+
+
+@rule("sides.mirror-gap", "Gap between mirror housing and side glass", "warning",
+      needs=("sides.mirror_gap",),
+      thresholds=(Threshold("gap", "45 mm", "mm", "gap below which the channel flow interferes", COMMON),),
+      sources=(COMMON, Source("effect: 1-5 counts, and wind noise; from memory", "from memory")))
+def mirror_gap(sheet, ctx):
+    """
+    What it checks: the clear gap between the mirror housing and the side glass.
+
+    Why it matters: a narrow gap forms a channel where the mirror's and the pillar's flows
+    interfere: local separation, drag and wind noise.
+
+    How to fix: widen the gap to 45 mm or more, or close it fully with a shaped stalk.
+
+    Known limits: mirrors mounted on the door skin below the glass line are judged by the
+    same number, which is a simplification.
+    """
+    if sheet.get("sides.mirror_kind") == "none":
+        return passed("no exterior mirrors", measured="none")
+    gap = sheet.get("sides.mirror_gap")
+    if gap < ctx["gap"]:
+        return major("the mirror sits close to the glass: channel flow, drag and noise", measured=f"{gap * 1000:.0f} mm",
+                     limit=f">= {ctx['gap'] * 1000:.0f} mm", margin=f"{(gap - ctx['gap']) * 1000:+.0f} mm",
+                     counts=counts_range(1, 5))
+    return passed("the mirror gap is clear", measured=f"{gap * 1000:.0f} mm", limit=f">= {ctx['gap'] * 1000:.0f} mm")
+
+
+@rule("sides.door-handles", "Door handles flush with the skin", "advisory",
+      needs=("sides.door_handles",),
+      sources=(Source("effect: protruding handles 1-4 counts; from memory", "from memory"),))
+def door_handles(sheet, ctx):
+    """
+    What it checks: whether the door handles protrude from the skin.
+
+    Why it matters: protruding handles are small bluff bodies along the side; each sheds a
+    wake into the side boundary layer.
+
+    How to fix: use flush or pop-out handles, or recess the handle into the skin.
+
+    Known limits: the effect is small; flush handles bring their own cost and icing issues.
+    """
+    handles = sheet.get("sides.door_handles")
+    if handles == "protruding":
+        return minor("the door handles protrude into the flow", measured=handles, limit="flush or recessed",
+                     counts=counts_range(1, 4))
+    return passed("the door handles do not protrude", measured=handles)
+
+
+@rule("sides.sill-step", "Sill set-back below the doors", "advisory",
+      needs=("sides.sill_step",),
+      thresholds=(Threshold("step", "15 mm", "mm", "set-back above which the side flow is drawn under", COMMON),),
+      sources=(COMMON, Source("effect: 1-3 counts; from memory", "from memory")))
+def sill_step(sheet, ctx):
+    """
+    What it checks: the inboard step of the sill below the door surface.
+
+    Why it matters: a deep set-back lets the side flow curl under the body and feeds the
+    underbody with disturbed air; a side skirt that continues the door line keeps the two
+    flows apart.
+
+    How to fix: bring the sill or side skirt out to within 15 mm of the door skin line.
+
+    Known limits: styling often wants the shadow line; the drag effect is small.
+    """
+    step = sheet.get("sides.sill_step")
+    if step > ctx["step"]:
+        return minor("the sill is set back deeply below the doors", measured=f"{step * 1000:.0f} mm",
+                     limit=f"<= {ctx['step'] * 1000:.0f} mm", counts=counts_range(1, 3))
+    return passed("the sill follows the door line", measured=f"{step * 1000:.0f} mm",
+                  limit=f"<= {ctx['step'] * 1000:.0f} mm")

@@ -1,0 +1,167 @@
+"""Wheels and wheelhouses: rotating, open, and responsible for a quarter of a car's drag."""
+
+from __future__ import annotations
+
+from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
+
+WHEEL_SOURCE = Source("Wickern, Zwicker and Pfadenhauer, SAE 970133 (1997), and Landstrom, Walker and Lofdahl, "
+                      "SAE 2009-01-0778: rim design changes drag by 10-20 counts; recalled", "from memory")
+
+
+@rule("wheels.rim-openness", "Rim openness", "warning",
+      needs=("wheels.rim_openness",),
+      thresholds=(Threshold("open", "35 %", "%", "open share above which the rims pump air", WHEEL_SOURCE),
+                  Threshold("closed", "20 %", "%", "open share a low-drag rim reaches", WHEEL_SOURCE)),
+      sources=(WHEEL_SOURCE, Source("effect: about 3-6 counts per 10 % of openness closed; from memory",
+                                    "from memory")))
+def rim_openness(sheet, ctx):
+    """
+    What it checks: the open share of the rim face (open area between the spokes over the
+    rim disc area).
+
+    Why it matters: open spokes act as a fan: the rotating wheel pumps air out of the
+    wheelhouse into the side flow, and the spokes themselves meet the flow at the top of
+    the wheel at twice the vehicle speed. Closing the rim is one of the largest single
+    gains on a modern car.
+
+    How to fix: close the rim face to 20 % or less with flat spokes or an aero insert,
+    keeping enough opening for brake cooling (check with the brake team).
+
+    Known limits: the spoke shape and the rim's outer lip matter beside the open share;
+    brake cooling sets a floor.
+    """
+    openness = sheet.get("wheels.rim_openness")
+    closable = openness - ctx["closed"]
+    measured = f"{openness * 100:.0f} % open"
+    if openness > ctx["open"]:
+        return major("the rims are open: they pump wheelhouse air into the side flow", measured=measured,
+                     limit=f"<= {ctx['open'] * 100:.0f} %", margin=f"{(openness - ctx['open']) * 100:+.0f} %",
+                     counts=counts_range(30 * closable, 60 * closable))
+    if openness > ctx["closed"]:
+        return minor("the rims could be closed further", measured=measured, limit=f"<= {ctx['closed'] * 100:.0f} %",
+                     counts=counts_range(30 * closable, 60 * closable))
+    return passed("the rims are closed", measured=measured, limit=f"<= {ctx['closed'] * 100:.0f} %")
+
+
+@rule("wheels.front-deflector", "Deflectors ahead of the front tyres", "advisory",
+      needs=("wheels.front_deflector_height",),
+      thresholds=(Threshold("minimum", "15 mm", "mm", "height below which the deflector does little", COMMON),
+                  Threshold("maximum", "70 mm", "mm", "height above which its own drag dominates", COMMON)),
+      sources=(COMMON, Source("effect: 2-8 counts; from memory (Hucho 1998, wheel spoilers)", "from memory")))
+def front_deflector(sheet, ctx):
+    """
+    What it checks: the height of the deflector (tyre spat) ahead of each front tyre.
+
+    Why it matters: the lower part of the front tyre meets the underbody flow head-on; a
+    small deflector turns the flow around it and narrows the tyre wake. Too tall, the
+    deflector becomes a bluff body of its own.
+
+    How to fix: fit deflectors of 20-60 mm ahead of the front tyres, shaped to the tyre
+    width.
+
+    Known limits: the best height depends on the air dam and the tyre; tune in CFD or the tunnel.
+    """
+    height = sheet.get("wheels.front_deflector_height")
+    limits = f"{ctx['minimum'] * 1000:.0f}-{ctx['maximum'] * 1000:.0f} mm"
+    if height < ctx["minimum"]:
+        return minor("no effective deflectors ahead of the front tyres", measured=f"{height * 1000:.0f} mm",
+                     limit=limits, counts=counts_range(2, 8))
+    if height > ctx["maximum"]:
+        return minor("the front deflectors are tall enough to add drag of their own",
+                     measured=f"{height * 1000:.0f} mm", limit=limits, counts=counts_range(1, 4))
+    return passed("the front tyre deflectors are in the useful range", measured=f"{height * 1000:.0f} mm",
+                  limit=limits)
+
+
+@rule("wheels.rear-strakes", "Strakes ahead of the rear wheels", "advisory",
+      needs=("wheels.rear_strakes",),
+      sources=(COMMON, Source("effect: 2-6 counts; from memory", "from memory")))
+def rear_strakes(sheet, ctx):
+    """
+    What it checks: whether strakes or spats stand ahead of the rear tyres.
+
+    Why it matters: the rear tyres sit in the underbody flow that leaves the floor panels;
+    a strake turns it around the tyre and keeps the tyre wake out of the diffuser.
+
+    How to fix: add small strakes on the floor panel ahead of each rear tyre.
+
+    Known limits: with a fully panelled floor and a diffuser, strakes mainly protect the
+    diffuser; their gain shows best in CFD.
+    """
+    if sheet.get("wheels.rear_strakes"):
+        return passed("rear strakes are fitted", measured="fitted")
+    return minor("no strakes ahead of the rear tyres", measured="none", limit="fitted", counts=counts_range(2, 6))
+
+
+@rule("wheels.wheelhouse-gap", "Gap between tyre and wheel arch", "advisory",
+      needs=("wheels.wheelhouse_gap",),
+      thresholds=(Threshold("gap", "50 mm", "mm", "gap above which the wheelhouse volume pumps air", COMMON),),
+      sources=(COMMON, Source("effect: 2-8 counts; from memory", "from memory")))
+def wheelhouse_gap(sheet, ctx):
+    """
+    What it checks: the radial gap between the tyre and the arch lip at the top.
+
+    Why it matters: a large wheelhouse lets the rotating wheel circulate more air, which
+    leaves through the arch into the side flow and under the car.
+
+    How to fix: reduce the gap (within the suspension travel and snow-chain clearance) or
+    fit arch liners that close the volume above the tyre.
+
+    Known limits: ride height and suspension travel set a floor the rule does not know.
+    """
+    gap = sheet.get("wheels.wheelhouse_gap")
+    if gap > ctx["gap"]:
+        return minor("the wheelhouse gap is large", measured=f"{gap * 1000:.0f} mm",
+                     limit=f"<= {ctx['gap'] * 1000:.0f} mm", counts=counts_range(2, 8))
+    return passed("the wheelhouse is tight", measured=f"{gap * 1000:.0f} mm", limit=f"<= {ctx['gap'] * 1000:.0f} mm")
+
+
+@rule("wheels.wheelhouse-vent", "Front wheelhouse vented to the side", "advisory",
+      needs=("wheels.wheelhouse_vented",),
+      sources=(Source("effect: 2-5 counts; from memory (production air breathers)", "from memory"),))
+def wheelhouse_vent(sheet, ctx):
+    """
+    What it checks: whether the front wheelhouse is vented to the body side behind the arch
+    (an air breather).
+
+    Why it matters: the front wheelhouse is pressurised by the air curtain, the cooling
+    outlet and the wheel; venting it behind the wheel releases that air along the side
+    instead of through the arch opening and the underbody.
+
+    How to fix: add an outlet in the fender behind the front wheel, ducted from the wheelhouse.
+
+    Known limits: the gain depends on what feeds the wheelhouse; without air curtains or a
+    wheelhouse cooling outlet it is small.
+    """
+    if sheet.get("wheels.wheelhouse_vented"):
+        return passed("the front wheelhouse is vented", measured="vented")
+    return minor("the front wheelhouse has no outlet behind the wheel", measured="closed", limit="vented",
+                 counts=counts_range(2, 5))
+
+
+@rule("wheels.rear-arch-exit", "Rear wheel arch trailing edge", "warning",
+      needs=("wheels.rear_arch_exit_radius",),
+      thresholds=(Threshold("radius", "10 mm", "mm", "trailing-edge radius above which wheelhouse air is drawn "
+                                                   "along the side", COMMON),),
+      sources=(COMMON, Source("effect: 2-6 counts; from memory", "from memory")))
+def rear_arch_exit(sheet, ctx):
+    """
+    What it checks: the radius of the trailing edge of the rear wheel arch, where the
+    wheelhouse air leaves to the side.
+
+    Why it matters: a sharp trailing edge lets the wheelhouse air separate cleanly; a
+    rounded one draws it along the rear quarter into the wake's edge, widening the wake and
+    disturbing the side taper.
+
+    How to fix: sharpen the trailing edge of the rear arch (10 mm radius or less), or add a
+    small lip.
+
+    Known limits: one radius; the arch liner shape behind it matters too.
+    """
+    radius = sheet.get("wheels.rear_arch_exit_radius")
+    if radius > ctx["radius"]:
+        return major("the rear arch trailing edge is rounded", measured=f"{radius * 1000:.0f} mm",
+                     limit=f"<= {ctx['radius'] * 1000:.0f} mm", margin=f"{(radius - ctx['radius']) * 1000:+.0f} mm",
+                     counts=counts_range(2, 6))
+    return passed("the rear arch trailing edge is sharp", measured=f"{radius * 1000:.0f} mm",
+                  limit=f"<= {ctx['radius'] * 1000:.0f} mm")

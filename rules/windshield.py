@@ -1,0 +1,146 @@
+"""Windshield and A-pillars: the flow over the glass and around the pillars into the sides."""
+
+from __future__ import annotations
+
+import math
+
+from aeroreview.rules import COMMON, HUCHO, Source, Threshold, counts_range, major, minor, passed, rule
+
+
+@rule("windshield.angle", "Windshield inclination", "warning",
+      needs=("windshield.angle",),
+      thresholds=(Threshold("upright", "40 deg", "deg", "inclination from horizontal above which the screen is upright",
+                            HUCHO),
+                  Threshold("steep", "33 deg", "deg", "inclination from horizontal above which gains remain", HUCHO)),
+      sources=(Source("Hucho 1998, ch. 4: drag falls as the windshield is laid back to about 30 deg from horizontal "
+                      "(60 deg rake), with little gain beyond; recalled", "from memory"),
+               Source("effect: about 1 count per degree above 33 deg, from memory", "from memory")),
+      applies_to=("sedan", "fastback", "hatchback", "estate", "suv", "sports"))
+def windshield_angle(sheet, ctx):
+    """
+    What it checks: the windshield inclination from horizontal in the side view.
+
+    Why it matters: a more upright windshield raises the stagnation pressure on the glass
+    and the suction peak at the header; laying it back lowers drag until about 30 deg from
+    horizontal, beyond which the gain is small and visibility, heat load and weight suffer.
+
+    How to fix: lay the windshield back (move the cowl forward or the header rearward),
+    or, where the package fixes the angle, increase the header radius to keep the roof flow
+    attached.
+
+    Known limits: the gain also depends on the header radius and the hood-to-glass angle;
+    vans and pickups are excluded because their packages fix the screen.
+    """
+    angle = sheet.get("windshield.angle")
+    degrees = math.degrees(angle)
+    measured = f"{degrees:.1f} deg from horizontal"
+    steep = math.degrees(ctx["steep"])
+    if angle > ctx["upright"]:
+        return major("the windshield is upright; laying it back is a large gain", measured=measured,
+                     limit=f"<= {math.degrees(ctx['upright']):.0f} deg", margin=f"{degrees - math.degrees(ctx['upright']):+.1f} deg",
+                     counts=counts_range(0.7 * (degrees - steep), 1.3 * (degrees - steep)))
+    if angle > ctx["steep"]:
+        return minor("the windshield is steeper than the usual optimum", measured=measured, limit=f"<= {steep:.0f} deg",
+                     margin=f"{degrees - steep:+.1f} deg",
+                     counts=counts_range(0.7 * (degrees - steep), 1.3 * (degrees - steep)))
+    return passed("the windshield is laid back", measured=measured, limit=f"<= {steep:.0f} deg")
+
+
+@rule("windshield.a-pillar-radius", "A-pillar edge radius", "warning",
+      needs=("windshield.a_pillar_radius",),
+      thresholds=(Threshold("sharp", "15 mm", "mm", "radius below which the pillar flow separates", COMMON),
+                  Threshold("comfortable", "25 mm", "mm", "radius with margin at yaw", COMMON)),
+      sources=(COMMON, Source("effect: 2-8 counts, and wind noise; from memory (Hucho 1998, A-pillar vortex)",
+                              "from memory")))
+def a_pillar_radius(sheet, ctx):
+    """
+    What it checks: the radius of the A-pillar edge between the windshield and the side glass.
+
+    Why it matters: a sharp pillar sheds a strong conical vortex onto the side glass; it
+    adds drag, raises wind noise and soils the side glass. At yaw the leeward pillar
+    separates first.
+
+    How to fix: increase the pillar radius (25 mm or more), or shape the glass and the
+    pillar trim so that the transition is continuous.
+
+    Known limits: one radius at mid height; drag is less sensitive than wind noise here.
+    """
+    radius = sheet.get("windshield.a_pillar_radius")
+    measured = f"{radius * 1000:.0f} mm"
+    if radius < ctx["sharp"]:
+        return major("the A-pillar is sharp: strong pillar vortex, drag and wind noise", measured=measured,
+                     limit=f">= {ctx['sharp'] * 1000:.0f} mm", margin=f"{(radius - ctx['sharp']) * 1000:+.0f} mm",
+                     counts=counts_range(2, 8))
+    if radius < ctx["comfortable"]:
+        return minor("the A-pillar radius leaves little margin at yaw", measured=measured,
+                     limit=f">= {ctx['comfortable'] * 1000:.0f} mm", counts=counts_range(1, 3))
+    return passed("the A-pillar is well rounded", measured=measured, limit=f">= {ctx['comfortable'] * 1000:.0f} mm")
+
+
+@rule("windshield.a-pillar-step", "Step from windshield to A-pillar trim", "warning",
+      needs=("windshield.a_pillar_step",),
+      thresholds=(Threshold("step", "6 mm", "mm", "step height above which the pillar acts as a fence", COMMON),),
+      sources=(COMMON, Source("effect: 1-5 counts; from memory", "from memory")))
+def a_pillar_step(sheet, ctx):
+    """
+    What it checks: the height of the step from the windshield surface to the A-pillar
+    trim (the rain gutter).
+
+    Why it matters: a deep gutter works as a fence that trips the flow into the pillar
+    vortex; it adds drag and is a leading source of wind noise.
+
+    How to fix: bring the glass flush with the pillar (flush glazing), or keep the gutter
+    below 6 mm and round its edge.
+
+    Known limits: water management may need a gutter; the rule does not weigh that.
+    """
+    step = sheet.get("windshield.a_pillar_step")
+    measured = f"{step * 1000:.1f} mm"
+    if step > ctx["step"]:
+        return major("the A-pillar step is deep enough to trip the flow", measured=measured,
+                     limit=f"<= {ctx['step'] * 1000:.0f} mm", margin=f"{(step - ctx['step']) * 1000:+.1f} mm",
+                     counts=counts_range(1, 5))
+    return passed("the glazing is flush enough", measured=measured, limit=f"<= {ctx['step'] * 1000:.0f} mm")
+
+
+@rule("windshield.header-radius", "Windshield header radius", "advisory",
+      needs=("windshield.header_radius",),
+      thresholds=(Threshold("radius", "60 mm", "mm", "header radius below which the roof flow may separate", COMMON),),
+      sources=(COMMON, Source("effect: 1-5 counts; from memory", "from memory")))
+def header_radius(sheet, ctx):
+    """
+    What it checks: the radius of the windshield-to-roof transition (the header).
+
+    Why it matters: the flow accelerates strongly over the header; a tight radius can
+    separate it, thickening the boundary layer that reaches the rear of the roof.
+
+    How to fix: soften the header radius (60 mm or more), or lay the windshield back.
+
+    Known limits: a small radius may still hold attached flow on a well laid-back screen.
+    """
+    radius = sheet.get("windshield.header_radius")
+    if radius < ctx["radius"]:
+        return minor("the header radius is tight", measured=f"{radius * 1000:.0f} mm",
+                     limit=f">= {ctx['radius'] * 1000:.0f} mm", counts=counts_range(1, 5))
+    return passed("the header radius is generous", measured=f"{radius * 1000:.0f} mm",
+                  limit=f">= {ctx['radius'] * 1000:.0f} mm")
+
+
+@rule("windshield.wipers", "Wipers parked out of the flow", "advisory",
+      needs=("windshield.wipers_concealed",),
+      sources=(Source("effect: 1-3 counts; from memory", "from memory"),))
+def wipers(sheet, ctx):
+    """
+    What it checks: whether the parked wipers sit below the hood trailing edge.
+
+    Why it matters: exposed wiper arms and blades stand in the high-speed flow at the base
+    of the windshield and add drag and noise.
+
+    How to fix: park the wipers below the hood line, or extend the hood trailing edge over them.
+
+    Known limits: the effect is small; it is listed because it is cheap to fix early.
+    """
+    if sheet.get("windshield.wipers_concealed"):
+        return passed("the wipers are concealed", measured="concealed")
+    return minor("the parked wipers stand in the flow", measured="exposed", limit="concealed",
+                 counts=counts_range(1, 3))
