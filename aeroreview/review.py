@@ -201,18 +201,21 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
         if finding.counts:
             finding.consequences = _consequences(finding.counts, per_count, power_per_count)
 
-    zones = {}
-    for zone in ZONES:
-        in_zone = [f for f in findings.values() if f.rule.zone == zone]
-        assessed = [f for f in in_zone if f.status != NOT_ASSESSED]
-        score = 100 * sum(POINTS[f.status] for f in assessed) / len(assessed) if assessed else None
-        zones[zone] = ZoneScore(zone, score, len(assessed), len(in_zone))
-    assessed = [f for f in findings.values() if f.status != NOT_ASSESSED]
-    score = 100 * sum(POINTS[f.status] for f in assessed) / len(assessed) if assessed else None
+    tally = {zone: [0.0, 0, 0] for zone in ZONES}  # points, assessed, applicable
+    for finding in findings.values():
+        entry = tally[finding.rule.zone]
+        entry[2] += 1
+        if finding.status != NOT_ASSESSED:
+            entry[0] += POINTS[finding.status]
+            entry[1] += 1
+    zones = {zone: ZoneScore(zone, 100 * points / assessed if assessed else None, assessed, applicable)
+             for zone, (points, assessed, applicable) in tally.items()}
+    points = sum(entry[0] for entry in tally.values())
+    assessed = sum(entry[1] for entry in tally.values())
     costed = [f.counts for f in findings.values() if f.counts]
     recoverable = (round(sum(c[0] for c in costed), 1), round(sum(c[1] for c in costed), 1))
-    return Review(sheet, list(findings.values()), zones, score, len(assessed) / len(findings) if findings else 0.0,
-                  recoverable, numbers, assumptions, notices)
+    return Review(sheet, list(findings.values()), zones, 100 * points / assessed if assessed else None,
+                  assessed / len(findings) if findings else 0.0, recoverable, numbers, assumptions, notices)
 
 
 def waiver_problems(fleet: Fleet) -> list[Problem]:
