@@ -38,6 +38,21 @@ ZONES: dict[str, str] = {
     "cooling": "Cooling and internal flow",
 }
 
+# The zones a review scores (rules and attachments use them): the body zones above that
+# carry rules, plus the two computed ones.
+REVIEW_ZONES: dict[str, str] = {
+    "front": "Front",
+    "windshield": "Windshield and A-pillars",
+    "rear": "Roof and rear",
+    "sides": "Sides and mirrors",
+    "underbody": "Underbody and diffuser",
+    "wheels": "Wheels and wheelhouses",
+    "cooling": "Cooling and internal flow",
+    "stability": "Lift and stability",
+    "data": "Data quality",
+}
+ALL_ZONES: dict[str, str] = {**ZONES, **REVIEW_ZONES}
+
 VEHICLE_CLASSES = ("sedan", "fastback", "hatchback", "estate", "suv", "pickup", "van", "sports")
 
 COMMON = "common practice"

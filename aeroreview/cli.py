@@ -93,6 +93,18 @@ def _rule_json(rule) -> dict:
             "rationale": rule.doc.get("Why it matters", ""), "fix": rule.fix, "documentation": rule.doc}
 
 
+def _cmd_site(args) -> int:
+    from aeroreview.site import build  # MkDocs loads only when the site is wanted
+
+    if args.action == "serve":
+        build.serve_site(args.config, args.address)
+        return EXIT_CLEAN
+    folder = build.build_site(args.config, args.output)
+    print(f"built the review site in {folder}\nopen {folder / 'index.html'} in a browser, or serve it: "
+          f"aeroreview site serve (http://{args.address}/)")
+    return EXIT_CLEAN
+
+
 def _cmd_explain(args) -> int:
     rules = all_rules()
     rule = rules.get(args.rule_id)
@@ -157,6 +169,13 @@ def build_parser() -> argparse.ArgumentParser:
     new.add_argument("--revision", default="r1")
     new.add_argument("-o", "--output", help="file to write (default vehicles/VEHICLE_ID/REVISION.yaml)")
     new.set_defaults(run=_cmd_new)
+
+    site = sub.add_parser("site", help="build or serve the review site (MkDocs)")
+    site.add_argument("action", choices=("build", "serve"))
+    site.add_argument("-o", "--output", help="folder for the built site (default: site_dir of mkdocs.yml)")
+    site.add_argument("--config", help="MkDocs configuration (default ./mkdocs.yml)")
+    site.add_argument("--address", default="127.0.0.1:8000", help="address to serve on (default 127.0.0.1:8000)")
+    site.set_defaults(run=_cmd_site)
 
     calc_cli.add_parser(sub)
     return parser

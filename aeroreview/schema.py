@@ -67,7 +67,7 @@ def sheet_schema() -> dict:
                              "expires": _date()}}
     attachment = {"type": "object", "additionalProperties": False, "required": ["file", "zone"],
                   "properties": {"file": {"type": "string", "pattern": r"^(?!/)(?!.*\.\.)[^\\:]+$"},
-                                 "zone": {"enum": list(catalogue.ZONES)}, "caption": {"type": "string"}}}
+                                 "zone": {"enum": list(catalogue.ALL_ZONES)}, "caption": {"type": "string"}}}
     required = [f.key for f in catalogue.FEATURES if f.required]
     return {
         "$schema": DRAFT,

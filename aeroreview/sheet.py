@@ -365,8 +365,8 @@ class _Checker:
             file = self.text(raw, "file", path, required=True, limit=300)
             zone = self.text(raw, "zone", path, required=True, limit=40)
             caption = self.text(raw, "caption", path, limit=1000)
-            if zone and zone not in catalogue.ZONES:
-                self.error(path + ("zone",), f"unknown zone '{zone}'", suggest(zone, catalogue.ZONES))
+            if zone and zone not in catalogue.ALL_ZONES:
+                self.error(path + ("zone",), f"unknown zone '{zone}'", suggest(zone, catalogue.ALL_ZONES))
             if file and self.safe_file(file, path + ("file",)):
                 out.append(Attachment(file, zone, caption))
         return out

@@ -26,23 +26,14 @@ import re
 from dataclasses import dataclass
 from typing import Callable
 
+from aeroreview.catalogue import REVIEW_ZONES
 from aeroreview.units import format_quantity, to_si
 
 STATUSES = ("pass", "advisory", "warning", "failure")  # in rising order of concern
 NOT_ASSESSED = "not assessed"
 SEVERITIES = ("advisory", "warning", "failure")
 SOURCE_KINDS = ("published", "standard", "common practice", "from memory")
-ZONES = {
-    "front": "Front",
-    "windshield": "Windshield and A-pillars",
-    "rear": "Roof and rear",
-    "sides": "Sides and mirrors",
-    "underbody": "Underbody and diffuser",
-    "wheels": "Wheels and wheelhouses",
-    "cooling": "Cooling and internal flow",
-    "stability": "Lift and stability",
-    "data": "Data quality",
-}
+ZONES = REVIEW_ZONES
 DOC_SECTIONS = ("What it checks", "Why it matters", "How to fix", "Known limits")
 
 

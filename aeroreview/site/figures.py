@@ -1,0 +1,220 @@
+"""Figures for the review site: matplotlib SVG, deterministic, colour-blind safe.
+
+Every figure is a pure function of a small JSON-able ``data`` mapping, drawn by
+:class:`FigureCache`, which stores the SVG under a hash of (figure kind, data, figure code
+version): a rebuild redraws only the figures whose inputs changed, and the same input
+always gives the same bytes (fixed SVG hash salt, no date, text kept as text).
+
+Palette: Okabe and Ito, "Color universal design" (2002), safe for the common forms of
+colour blindness; status is always written in words too, never by colour alone.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import io
+import json
+from pathlib import Path
+
+import matplotlib
+
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+
+FIGURE_VERSION = "1"  # bump when a drawing function changes, so cached SVGs are redrawn
+
+OKABE_ITO = {"orange": "#E69F00", "sky": "#56B4E9", "green": "#009E73", "yellow": "#F0E442",
+             "blue": "#0072B2", "vermillion": "#D55E00", "purple": "#CC79A7", "black": "#000000",
+             "grey": "#999999"}
+STATUS_COLOURS = {"pass": OKABE_ITO["green"], "advisory": OKABE_ITO["sky"], "warning": OKABE_ITO["orange"],
+                  "failure": OKABE_ITO["vermillion"], "not assessed": OKABE_ITO["grey"]}
+
+STYLE = {
+    "svg.hashsalt": "aeroreview", "svg.fonttype": "none", "font.size": 9, "axes.grid": True,
+    "grid.alpha": 0.3, "axes.spines.top": False, "axes.spines.right": False, "figure.dpi": 100,
+}
+
+
+def _svg(figure) -> bytes:
+    buffer = io.BytesIO()
+    figure.savefig(buffer, format="svg", metadata={"Date": None}, bbox_inches="tight")
+    plt.close(figure)
+    return buffer.getvalue()
+
+
+def _figure(width=6.4, height=3.4):
+    return plt.subplots(figsize=(width, height))
+
+
+def drag_power(data) -> bytes:
+    fig, ax = _figure()
+    ax.plot(data["speed_km_h"], data["drag_N"], color=OKABE_ITO["blue"], label="drag force")
+    ax.set_xlabel("speed [km/h]")
+    ax.set_ylabel("drag force [N]", color=OKABE_ITO["blue"])
+    right = ax.twinx()
+    right.plot(data["speed_km_h"], data["power_kW"], color=OKABE_ITO["vermillion"], linestyle="--", label="drag power")
+    right.set_ylabel("drag power [kW]", color=OKABE_ITO["vermillion"])
+    right.grid(False)
+    ax.axvline(data["reference_km_h"], color=OKABE_ITO["grey"], linewidth=0.8)
+    lines = ax.get_lines()[:1] + right.get_lines()
+    ax.legend(lines, [line.get_label() for line in lines], loc="upper left")
+    ax.set_title(f"Drag and power in still air (Cd {data['cd']:.3f}, A {data['area']:.2f} m²)")
+    return _svg(fig)
+
+
+def lift(data) -> bytes:
+    fig, ax = _figure()
+    ax.plot(data["speed_km_h"], data["front_kg"], color=OKABE_ITO["blue"], label="front axle")
+    ax.plot(data["speed_km_h"], data["rear_kg"], color=OKABE_ITO["orange"], linestyle="--", label="rear axle")
+    ax.axhline(0, color=OKABE_ITO["black"], linewidth=0.6)
+    ax.set_xlabel("speed [km/h]")
+    ax.set_ylabel("lift per axle [kg] (positive unloads)")
+    right = ax.twinx()
+    right.set_ylim(*(limit / data["rear_static_kg"] * 100 for limit in ax.get_ylim()))
+    right.set_ylabel("share of static rear axle load [%]")
+    right.grid(False)
+    for speed, label in ((data["reference_km_h"], "reference"), (data["top_km_h"], "top speed")):
+        ax.axvline(speed, color=OKABE_ITO["grey"], linewidth=0.8)
+        ax.annotate(label, (speed, ax.get_ylim()[1]), fontsize=7, ha="right", va="top", rotation=90)
+    ax.legend(loc="upper left")
+    ax.set_title(f"Lift per axle (cl front {data['cl_front']:+.3f}, cl rear {data['cl_rear']:+.3f})")
+    return _svg(fig)
+
+
+def energy(data) -> bytes:
+    fig, ax = _figure(6.4, 2.6)
+    names = ["rolling", "aerodynamic", "braking"]
+    values = [data["rolling"], data["aero"], data["braking"]]
+    colours = [OKABE_ITO["sky"], OKABE_ITO["vermillion"], OKABE_ITO["grey"]]
+    bars = ax.barh(names, values, color=colours)
+    if data["recovered"]:
+        ax.barh(["braking"], [data["recovered"]], color=OKABE_ITO["green"], hatch="//", label="recovered by regeneration")
+        ax.legend(loc="lower right")
+    for bar, value in zip(bars, values):
+        ax.annotate(f"{value:.2f} kWh", (bar.get_width(), bar.get_y() + bar.get_height() / 2), xytext=(3, 0),
+                    textcoords="offset points", va="center", fontsize=8)
+    ax.set_xlabel(f"energy dissipated at the wheels over one {data['cycle']} cycle [kWh]")
+    ax.set_title(f"Energy breakdown on {data['cycle']}: aerodynamic share {data['aero_share'] * 100:.0f} %")
+    ax.set_xlim(0, max(values) * 1.3 if max(values) else 1)
+    return _svg(fig)
+
+
+def ahmed(data) -> bytes:
+    fig, ax = _figure()
+    ax.plot(*zip(*data["attached"]), color=OKABE_ITO["blue"], marker="o", markersize=3, label="attached slant flow")
+    ax.plot(*zip(*data["separated"]), color=OKABE_ITO["orange"], marker="s", markersize=3,
+            label="separated slant flow")
+    ax.axvspan(data["critical_low"], data["critical_high"], color=OKABE_ITO["vermillion"], alpha=0.12,
+               label="critical region")
+    if data.get("angle") is not None:
+        ax.axvline(data["angle"], color=OKABE_ITO["black"], linestyle=":", linewidth=1.2)
+        ax.annotate(f"this revision: {data['angle']:.1f} deg", (data["angle"], ax.get_ylim()[1]), fontsize=8,
+                    ha="right", va="top", rotation=90)
+    ax.set_xlabel("rear slant (backlight) angle from horizontal [deg]")
+    ax.set_ylabel("Ahmed body drag coefficient [-]")
+    ax.legend(loc="upper left")
+    ax.set_title("Ahmed, Ramm and Faltin (1984): drag against slant angle (values from memory)")
+    return _svg(fig)
+
+
+def waterfall(data) -> bytes:
+    steps = data["steps"]
+    fig, ax = _figure(6.4, max(2.4, 0.28 * (len(steps) + 2)))
+    labels = ["current"] + [s[0] for s in steps] + ["after fixes"]
+    level = data["cd"]
+    ax.barh(0, level, color=OKABE_ITO["blue"])
+    for i, (_, counts) in enumerate(steps, start=1):
+        saving = counts / 1000
+        ax.barh(i, -saving, left=level, color=OKABE_ITO["green"])
+        level -= saving
+    ax.barh(len(steps) + 1, level, color=OKABE_ITO["sky"])
+    ax.set_yticks(range(len(labels)), labels, fontsize=7)
+    ax.invert_yaxis()
+    low = min(level, data["cd"]) * 0.9
+    ax.set_xlim(low, data["cd"] * 1.02)
+    ax.set_xlabel("drag coefficient [-] (mid estimate of each fix; effects do not simply add)")
+    ax.set_title(f"The {len(steps)} largest fixes: Cd {data['cd']:.3f} to at best about {level:.3f}")
+    return _svg(fig)
+
+
+def zones(data) -> bytes:
+    fig, ax = _figure(6.4, 3.0)
+    names = [z["title"] for z in data["zones"]]
+    scores = [z["score"] if z["score"] is not None else 0 for z in data["zones"]]
+    colours = [OKABE_ITO["grey"] if z["score"] is None else OKABE_ITO["blue"] for z in data["zones"]]
+    bars = ax.barh(names, scores, color=colours)
+    for bar, zone in zip(bars, data["zones"]):
+        text = "not assessed" if zone["score"] is None else f"{zone['score']:.0f}"
+        ax.annotate(f"{text} (coverage {zone['coverage'] * 100:.0f} %)", (bar.get_width(), bar.get_y() + 0.4),
+                    xytext=(3, 0), textcoords="offset points", va="center", fontsize=7)
+    ax.set_xlim(0, 140)
+    ax.set_xticks([0, 20, 40, 60, 80, 100])
+    ax.invert_yaxis()
+    ax.set_xlabel("zone score [0-100]")
+    ax.set_title(f"Zone scores; overall {data['score']:.0f} with coverage {data['coverage'] * 100:.0f} %"
+                 if data["score"] is not None else "Zone scores")
+    return _svg(fig)
+
+
+def yaw(data) -> bytes:
+    fig, ax = _figure()
+    ax.plot(data["yaw_deg"], data["cd"], color=OKABE_ITO["blue"], marker="o", markersize=3, label="Cd(yaw)")
+    ax.axhline(data["cd_wind_averaged"], color=OKABE_ITO["vermillion"], linestyle="--",
+               label=f"wind-averaged Cd {data['cd_wind_averaged']:.4f} (SAE J1252)")
+    ax.axvspan(-data["max_yaw_deg"], data["max_yaw_deg"], color=OKABE_ITO["sky"], alpha=0.15,
+               label=f"yaw range of a {data['wind_m_s']:.2f} m/s wind at {data['speed_km_h']:.0f} km/h")
+    ax.set_xlabel("yaw angle [deg]")
+    ax.set_ylabel("drag coefficient [-]")
+    ax.legend(loc="upper center", fontsize=7)
+    ax.set_title(f"Yaw sweep: {data['label']}")
+    return _svg(fig)
+
+
+def trends(data) -> bytes:
+    fig, axes = plt.subplots(1, 3, figsize=(7.6, 2.6))
+    for ax, key, label, colour in zip(axes, ("cd", "score", "recoverable"),
+                                      ("Cd [-]", "score [0-100]", "recoverable counts (mid)"),
+                                      (OKABE_ITO["blue"], OKABE_ITO["green"], OKABE_ITO["vermillion"])):
+        values = [v if v is not None else float("nan") for v in data[key]]
+        ax.plot(data["revisions"], values, color=colour, marker="o")
+        ax.set_xlabel("revision")
+        ax.set_ylabel(label)
+    fig.suptitle(f"{data['name']}: revision trends", fontsize=9)
+    fig.tight_layout()
+    return _svg(fig)
+
+
+DRAWERS = {"drag-power": drag_power, "lift": lift, "energy": energy, "ahmed": ahmed, "waterfall": waterfall,
+           "zones": zones, "yaw": yaw, "trends": trends}
+
+
+class FigureCache:
+    """Draws figures on demand and keeps their SVG on disk, keyed by a hash of the inputs."""
+
+    def __init__(self, folder: Path | None):
+        self.folder = folder
+        self.drawn = 0
+        self.reused = 0
+
+    @staticmethod
+    def key(kind: str, data) -> str:
+        text = json.dumps([FIGURE_VERSION, kind, data], sort_keys=True, separators=(",", ":"))
+        return hashlib.sha256(text.encode()).hexdigest()[:20]
+
+    def svg(self, kind: str, data) -> tuple[str, bytes]:
+        """The figure's file name and SVG bytes."""
+        key = self.key(kind, data)
+        name = f"{kind}-{key}.svg"
+        cached = self.folder / name if self.folder else None
+        if cached and cached.is_file():
+            self.reused += 1
+            return name, cached.read_bytes()
+        with plt.rc_context(STYLE):
+            content = DRAWERS[kind](data)
+        self.drawn += 1
+        if cached:
+            cached.parent.mkdir(parents=True, exist_ok=True)
+            temporary = cached.with_suffix(".tmp")
+            temporary.write_bytes(content)
+            temporary.replace(cached)
+        return name, content

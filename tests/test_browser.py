@@ -1,0 +1,104 @@
+"""The demo site in a real browser: Debian's Chromium, driven headless by Playwright.
+
+Builds the demo site (with a hostile note added), serves it on 127.0.0.1, opens the home
+page, follows the link to a revision, and checks that every image loaded, that the
+findings tables have rows, that the site search finds a demo vehicle by name, that the
+console shows no errors and no script from a sheet ever runs. Screenshots are saved in
+test-artifacts/.
+"""
+
+from __future__ import annotations
+
+import functools
+import http.server
+import shutil
+import threading
+from pathlib import Path
+
+import pytest
+from playwright.sync_api import sync_playwright
+
+from conftest import ROOT
+from site_helpers import build, copy_knowledge_base
+
+CHROMIUM = "/usr/bin/chromium"  # Debian's package; .ci/run installs it (never a downloaded browser)
+FLAGS = ["--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update",
+         "--disable-sync", "--no-first-run", "--disable-quic"]
+ARTIFACTS = ROOT / "test-artifacts"
+
+
+@pytest.fixture(scope="module")
+def served(tmp_path_factory):
+    kb = copy_knowledge_base(tmp_path_factory.mktemp("kb"))
+    sheet = kb / "vehicles/tessel/r2.yaml"
+    sheet.write_text(sheet.read_text(encoding="utf-8").replace(
+        "notes: |\n", "notes: |\n  Hostile test <script>alert(1)</script><img src=x onerror=alert(2)>\n"), encoding="utf-8")
+    site = build(kb, kb / "out")
+    handler = functools.partial(_QuietHandler, directory=str(site))
+    server = http.server.ThreadingHTTPServer(("127.0.0.1", 0), handler)
+    threading.Thread(target=server.serve_forever, daemon=True).start()
+    yield f"http://127.0.0.1:{server.server_address[1]}"
+    server.shutdown()
+
+
+class _QuietHandler(http.server.SimpleHTTPRequestHandler):
+    def log_message(self, *args):
+        pass
+
+
+@pytest.fixture(scope="module")
+def browser():
+    assert Path(CHROMIUM).is_file(), "install Debian's chromium (apt-get install chromium); .ci/run does"
+    with sync_playwright() as playwright:
+        instance = playwright.chromium.launch(executable_path=CHROMIUM, args=FLAGS)
+        yield instance
+        instance.close()
+
+
+def test_demo_site_in_the_browser(served, browser):
+    ARTIFACTS.mkdir(exist_ok=True)
+    page = browser.new_page(viewport={"width": 1280, "height": 900})
+    errors, dialogs = [], []
+    page.on("console", lambda message: errors.append(message.text) if message.type == "error" else None)
+    page.on("pageerror", lambda error: errors.append(str(error)))
+    page.on("dialog", lambda dialog: (dialogs.append(dialog.message), dialog.dismiss()))
+
+    page.goto(served + "/")
+    page.wait_for_load_state("networkidle")
+    assert "Maroska Tessel" in page.inner_text("article")
+    page.screenshot(path=str(ARTIFACTS / "home.png"), full_page=True)
+
+    page.click("article table >> text=Maroska Tessel")
+    page.wait_for_load_state("networkidle")
+    page.click("article table >> text=r2")
+    page.wait_for_load_state("networkidle")
+    assert page.url.endswith("/fleet/tessel/r2/")
+    page.screenshot(path=str(ARTIFACTS / "revision.png"), full_page=True)
+
+    images = page.evaluate("Array.from(document.images).map(i => [i.src, i.complete, i.naturalWidth])")
+    figures = [image for image in images if "/figures/" in image[0]]
+    assert len(figures) >= 5
+    assert all(complete and width > 0 for _, complete, width in images), images
+    rows = page.locator("article table:has(th:text('Status')) tbody tr").count()
+    assert rows >= 30
+    assert "Hostile test <script>alert(1)</script>" in page.inner_text("article")
+
+    page.goto(served + "/fleet/tessel/r1/")
+    page.wait_for_load_state("networkidle")
+    loaded = page.evaluate("Array.from(document.images).every(i => i.complete && i.naturalWidth > 0)")
+    assert loaded
+
+    page.fill("input[data-md-component='search-query']", "Quillon")
+    page.wait_for_selector(".md-search-result__item", timeout=15000)
+    results = page.inner_text(".md-search-result")
+    assert "Quillon" in results
+    page.screenshot(path=str(ARTIFACTS / "search.png"))
+    page.fill("input[data-md-component='search-query']", "Hostile alert")
+    page.wait_for_selector(".md-search-result__item", timeout=15000)
+    page.wait_for_timeout(500)
+
+    assert dialogs == [], dialogs
+    assert errors == [], errors
+    page.close()
+
+
