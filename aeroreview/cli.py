@@ -105,6 +105,31 @@ def _cmd_site(args) -> int:
     return EXIT_CLEAN
 
 
+def _cmd_measure(args) -> int:
+    from aeroreview import measure  # trimesh loads only when a surface is measured
+
+    ground = None if args.ground is None else float(args.ground)
+    surface = measure.load_surface(args.surface, args.units, args.nose, args.up, ground)
+    result = measure.measure(surface)
+    source = Path(args.surface).name
+    if args.json:
+        print(json.dumps(measure.as_json(result), indent=2))
+    else:
+        print(measure.as_text(result, source), end="")
+    for note in surface.notes:
+        print(f"{args.surface}: {note}", file=sys.stderr)
+    if args.figures:
+        for path in measure.write_figures(result, Path(args.figures), source):
+            print(f"wrote {path}", file=sys.stderr)
+    if args.sheet:
+        report = measure.merge_into_sheet(args.sheet, result, source, args.overwrite)
+        print(f"{args.sheet}: added {len(report['added'])}, kept {len(report['kept'])} of your values"
+              + (f" ({', '.join(report['kept'])}; --overwrite replaces them)" if report["kept"] else "")
+              + (f", replaced {len(report['replaced'])} (original kept as {report['backup']})" if report["replaced"] else ""),
+              file=sys.stderr)
+    return EXIT_CLEAN
+
+
 def _cmd_explain(args) -> int:
     rules = all_rules()
     rule = rules.get(args.rule_id)
@@ -169,6 +194,18 @@ def build_parser() -> argparse.ArgumentParser:
     new.add_argument("--revision", default="r1")
     new.add_argument("-o", "--output", help="file to write (default vehicles/VEHICLE_ID/REVISION.yaml)")
     new.set_defaults(run=_cmd_new)
+
+    measure_cmd = sub.add_parser("measure", help="measure sheet features from a surface (STL, OBJ, PLY) or a CSV profile")
+    measure_cmd.add_argument("surface", metavar="SURFACE")
+    measure_cmd.add_argument("--units", choices=("mm", "m"), help="units of the file (default: inferred, and said)")
+    measure_cmd.add_argument("--nose", choices=("-x", "+x"), default="-x", help="which end is the front (default -x)")
+    measure_cmd.add_argument("--up", choices=("+z", "+y"), default="+z", help="which axis points up (default +z)")
+    measure_cmd.add_argument("--ground", type=float, help="ground plane height in file units (default: lowest point)")
+    measure_cmd.add_argument("--json", action="store_true", help="print JSON")
+    measure_cmd.add_argument("--sheet", help="merge the measured features into this sheet (comments and your values kept)")
+    measure_cmd.add_argument("--overwrite", action="store_true", help="with --sheet: replace your values (a backup is kept)")
+    measure_cmd.add_argument("--figures", metavar="DIR", help="write centreline.svg and sections.svg here")
+    measure_cmd.set_defaults(run=_cmd_measure)
 
     site = sub.add_parser("site", help="build or serve the review site (MkDocs)")
     site.add_argument("action", choices=("build", "serve"))

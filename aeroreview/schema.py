@@ -86,5 +86,9 @@ def sheet_schema() -> dict:
             "waivers": {"type": "array", "items": waiver},
             "notes": {"anyOf": [{"type": "string"}, {"type": "array", "items": {"type": "string"}}]},
             "attachments": {"type": "array", "items": attachment},
+            "geometry": {"anyOf": [{"type": "string"}, {
+                "type": "object", "additionalProperties": False, "required": ["file"],
+                "properties": {"file": {"type": "string"}, "units": {"enum": ["mm", "m"]}, "nose": {"enum": ["-x", "+x"]},
+                               "up": {"enum": ["+z", "+y"]}, "ground": {"type": "number"}}}]},
         },
     }

@@ -42,7 +42,8 @@ RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
 MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
 
 TOP_LEVEL = ("id", "revision", "parent", "name", "reviewed", "reviewer",
-             "features", "results", "waivers", "notes", "attachments")
+             "features", "results", "waivers", "notes", "attachments", "geometry")
+SURFACE_SUFFIXES = (".stl", ".obj", ".ply", ".csv")
 
 
 @dataclass(frozen=True)
@@ -98,6 +99,17 @@ class Attachment:
     caption: str
 
 
+@dataclass(frozen=True)
+class Geometry:
+    """The revision's surface or profile, and how to read it (see ``aeroreview measure``)."""
+
+    file: str  # relative to the sheet's folder, checked to stay inside it
+    units: str | None = None
+    nose: str = "-x"
+    up: str = "+z"
+    ground: float | None = None  # in file units
+
+
 @dataclass
 class Sheet:
     """One validated vehicle revision."""
@@ -114,6 +126,7 @@ class Sheet:
     waivers: list[Waiver] = field(default_factory=list)
     notes: str = ""
     attachments: list[Attachment] = field(default_factory=list)
+    geometry: Geometry | None = None
     warnings: list[Problem] = field(default_factory=list)
     line_of: dict[str, int] = field(default_factory=dict)  # feature or top-level key -> line
 
@@ -371,19 +384,44 @@ class _Checker:
                 out.append(Attachment(file, zone, caption))
         return out
 
-    def safe_file(self, file: str, path) -> bool:
-        """An attachment must be an image inside the sheet's own folder tree."""
+    def geometry(self, data) -> Geometry | None:
+        if data is None:
+            return None
+        if isinstance(data, str):
+            data = {"file": data}
+        data = self.mapping(data, ("geometry",), "geometry")
+        if not data:
+            return None
+        path = ("geometry",)
+        self.unknown_keys(data, ("file", "units", "nose", "up", "ground"), path)
+        file = self.text(data, "file", path, required=True, limit=300)
+        options = {"units": ("mm", "m"), "nose": ("-x", "+x"), "up": ("+z", "+y")}
+        for key, allowed in options.items():
+            if key in data and data[key] not in allowed:
+                self.error(path + (key,), f"geometry {key} must be one of {', '.join(allowed)}", suggest(str(data[key]), allowed))
+        ground = data.get("ground")
+        if ground is not None and (isinstance(ground, bool) or not isinstance(ground, (int, float))):
+            self.error(path + ("ground",), "geometry ground must be a number in the file's units", "e.g. ground: 0")
+            ground = None
+        if file and self.safe_file(file, path + ("file",), SURFACE_SUFFIXES, "surface"):
+            return Geometry(file, data.get("units"), data.get("nose", "-x"), data.get("up", "+z"),
+                            None if ground is None else float(ground))
+        return None
+
+    def safe_file(self, file: str, path, suffixes=IMAGE_SUFFIXES, what="attachment") -> bool:
+        """A file a sheet names must lie inside the sheet's own folder tree and exist."""
         pure = PurePosixPath(file)
         if "\\" in file or pure.is_absolute() or ".." in pure.parts or ":" in file:
-            self.error(path, f"attachment path '{file}' leaves the knowledge base",
+            self.error(path, f"{what} path '{file}' leaves the knowledge base",
                        "give a path relative to the sheet's folder, without '..'")
             return False
-        if pure.suffix.lower() not in IMAGE_SUFFIXES:
-            self.error(path, f"attachment '{file}' is not an image", f"attach one of {', '.join(IMAGE_SUFFIXES)}")
+        if pure.suffix.lower() not in suffixes:
+            kind = "an image" if what == "attachment" else "a surface file"
+            self.error(path, f"{what} '{file}' is not {kind}", f"give one of {', '.join(suffixes)}")
             return False
         target = self.folder / pure
         if not target.is_file():
-            self.error(path, f"attachment '{file}' does not exist", f"looked for {target}")
+            self.error(path, f"{what} '{file}' does not exist", f"looked for {target}")
             return False
         return True
 
@@ -441,6 +479,7 @@ def from_document(doc: yamldoc.Document, folder: Path) -> Sheet:
         reviewed=check.date(data, "reviewed"), reviewer=check.text(data, "reviewer", limit=200),
         features=features, results=check.results(data.get("results")), waivers=check.waivers(data.get("waivers")),
         notes=check.text(data, "notes"), attachments=check.attachments(data.get("attachments")),
+        geometry=check.geometry(data.get("geometry")),
         line_of={**lines, **{k: doc.where((k,), key=True)[0] for k in ("id", "revision", "parent") if k in data}},
     )
     check.problems.extend(_combinations(sheet, doc))

@@ -184,8 +184,47 @@ def trends(data) -> bytes:
     return _svg(fig)
 
 
+def silhouette(data) -> bytes:
+    """Centreline section; each zone's part of the outline in its review status colour."""
+    fig, ax = _figure(7.6, 2.9)
+    for part in data["parts"]:
+        xs, zs = zip(*part["points"])
+        colour = STATUS_COLOURS.get(part["status"], OKABE_ITO["black"])
+        ax.plot(xs, zs, color=colour, linewidth=2.4 if part["status"] else 1.2,
+                label=f"{part['zone']}: {part['status']}" if part["status"] else None)
+    for index, note in enumerate(data["notes"]):
+        offset = 16 if index % 2 == 0 else -22  # alternate above and below the line, so labels do not collide
+        ax.annotate(note["text"], (note["x"], note["z"]), xytext=(0, offset), textcoords="offset points", fontsize=7,
+                    ha="center", arrowprops={"arrowstyle": "-", "color": OKABE_ITO["grey"], "linewidth": 0.6})
+    ax.margins(y=0.25)
+    ax.axhline(0, color=OKABE_ITO["grey"], linewidth=0.8)
+    ax.set_aspect("equal")
+    ax.set_xlabel("x from the nose [m]")
+    ax.set_ylabel("z above ground [m]")
+    if any(p["status"] for p in data["parts"]):
+        ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.28), ncol=4, fontsize=7, frameon=False)
+    ax.set_title(data["title"])
+    return _svg(fig)
+
+
+def sections(data) -> bytes:
+    fig, ax = _figure(6.4, 3.4)
+    colours = [OKABE_ITO[c] for c in ("blue", "orange", "green", "vermillion", "purple", "sky", "black", "grey")]
+    for colour, section in zip(colours * 4, data["sections"]):
+        for key in ("upper", "lower"):
+            xs, ys = zip(*section[key])
+            ax.plot(xs, ys, color=colour, linewidth=1.0,
+                    label=section["label"] if key == "upper" else None)
+    ax.set_aspect("equal")
+    ax.set_xlabel("x from the nose [m]")
+    ax.set_ylabel("y [m]")
+    ax.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize=7, frameon=False)
+    ax.set_title("Horizontal sections (plan view) with the rear taper at each height")
+    return _svg(fig)
+
+
 DRAWERS = {"drag-power": drag_power, "lift": lift, "energy": energy, "ahmed": ahmed, "waterfall": waterfall,
-           "zones": zones, "yaw": yaw, "trends": trends}
+           "zones": zones, "yaw": yaw, "trends": trends, "silhouette": silhouette, "sections": sections}
 
 
 class FigureCache:

@@ -12,6 +12,7 @@ Markdown in a note or a name show as typed, never as markup.
 from __future__ import annotations
 
 import datetime
+import hashlib
 import json
 import math
 from dataclasses import dataclass, field
@@ -277,6 +278,28 @@ class _Writer:
         sweep_result = next((r for r in sheet.results if len(r.yaw_sweep) >= 2), None)
         if sweep_result:
             out += self.yaw_figure(sweep_result)
+        if sheet.geometry:
+            out += self.geometry_figures(review)
+        return out
+
+    def geometry_figures(self, review: Review) -> list[str]:
+        """The measured silhouette, each zone in its review status, and the horizontal sections."""
+        sheet = review.sheet
+        data = measured_geometry(sheet, self.cache.folder.parent / "aeroreview-geometry" if self.cache.folder else None)
+        worst = {}
+        for f in review.findings:
+            if f.status != NOT_ASSESSED and status_rank(f.status) >= status_rank(worst.get(f.rule.zone, "pass")):
+                worst[f.rule.zone] = f.status
+        silhouette = {**data["silhouette"], "parts": [{**part, "status": worst.get(part["zone"], "not assessed")}
+                                                      for part in data["silhouette"]["parts"]],
+                      "title": f"Measured centreline of {sheet.geometry.file}, zones by review status"}
+        alt = "Side silhouette measured from the surface, coloured by zone status: " + ", ".join(
+            f"{p['zone']} {p['status']}" for p in silhouette["parts"]) + "; " + ", ".join(
+            n["text"] for n in silhouette["notes"])
+        out = ["### Measured surface", "", self.figure("silhouette", silhouette, alt, 2), ""]
+        if data["sections"]["sections"]:
+            out += [self.figure("sections", data["sections"], "Horizontal sections at " + ", ".join(
+                s["label"] for s in data["sections"]["sections"]), 2), ""]
         return out
 
     def yaw_figure(self, result) -> list[str]:
@@ -480,6 +503,24 @@ def _consequence(f: Finding) -> str:
     if "range_km" in c:
         parts.append(f"{c['range_km'][0]:.1f}-{c['range_km'][1]:.1f} km range")
     return ", ".join(parts)
+
+
+def measured_geometry(sheet, cache_folder: Path | None) -> dict:
+    """Silhouette and section figure data of a sheet's surface, cached by the file's hash."""
+    from aeroreview import measure
+
+    geometry = sheet.geometry
+    path = Path(sheet.path).parent / geometry.file
+    digest = hashlib.sha256(path.read_bytes() + repr(geometry).encode()).hexdigest()[:24]
+    cached = cache_folder / f"{digest}.json" if cache_folder else None
+    if cached and cached.is_file():
+        return json.loads(cached.read_text(encoding="utf-8"))
+    result = measure.measure(measure.load_surface(path, geometry.units, geometry.nose, geometry.up, geometry.ground))
+    data = {"silhouette": measure.silhouette_data(result), "sections": measure.sections_data(result)}
+    if cached:
+        cached.parent.mkdir(parents=True, exist_ok=True)
+        cached.write_text(json.dumps(data), encoding="utf-8")
+    return data
 
 
 def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> Site:

@@ -1,0 +1,409 @@
+"""``aeroreview measure``: the features of a sheet, measured from the vehicle's surface.
+
+Reads a triangulated surface (STL, OBJ, PLY through trimesh) or a 2-D profile (CSV with
+columns x,z for the centreline or x,y for a plan outline), puts it in the tool's frame
+(x from the nose rearward, z up from the ground plane, metres), and measures with
+:mod:`aeroreview.calc.geometry`. Results can be merged into a sheet: ruamel.yaml keeps every
+comment and every value the user typed; a typed value is only replaced with
+``--overwrite``, and then the original file is kept as a backup.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+import shutil
+import warnings
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from aeroreview import catalogue, yamldoc
+from aeroreview.calc.geometry.profile import Measurement, measure_centreline, plan_taper
+from aeroreview.calc.geometry.projection import projected_area
+from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_mesh
+from aeroreview.problems import InputError, Problem, UsageError
+from aeroreview.sheet import from_document
+from aeroreview.units import from_si
+
+MESH_SUFFIXES = (".stl", ".obj", ".ply")
+SIZE_LIMITS = (0.2, 30.0)  # m: from a 1:5 model to a coach; anything else is not a road vehicle (common practice)
+SECTION_STEP = 0.2  # m between horizontal sections (the issue's default)
+
+
+class MeasureError(UsageError):
+    """A surface that cannot be measured (not a mesh, empty, absurd size)."""
+
+
+@dataclass
+class Surface:
+    """A surface in the tool's frame: metres, x from the nose rearward, z up from the ground."""
+
+    vertices: np.ndarray | None  # (n, 3), or None for a 2-D profile
+    faces: np.ndarray | None
+    profile: np.ndarray | None = None  # (n, 2) for a CSV profile
+    profile_kind: str = ""  # "centreline" (x, z) or "plan" (x, y)
+    units: str = "m"
+    units_note: str = ""
+    notes: list[str] = field(default_factory=list)
+    source: str = ""
+
+
+def _scale_for(extent: float, units: str | None) -> tuple[float, str, str]:
+    if units:
+        scale = {"mm": 0.001, "m": 1.0}[units]
+        return scale, units, f"units {units} (given)"
+    if extent > 100:
+        return 0.001, "mm", f"units inferred as mm (largest extent {extent:g} is too large for metres)"
+    return 1.0, "m", f"units inferred as m (largest extent {extent:g})"
+
+
+def _check_size(extent_m: float, name: str) -> None:
+    low, high = SIZE_LIMITS
+    if not low <= extent_m <= high:
+        raise MeasureError(f"{name}: a largest extent of {extent_m:.4g} m makes no sense for a road vehicle or its "
+                           f"model ({low:g} to {high:g} m); check --units")
+
+
+def _frame(points: np.ndarray, nose: str, up: str) -> np.ndarray:
+    points = np.array(points, dtype=float)
+    if up == "+y":
+        points = points[:, [0, 2, 1]]
+    if nose == "+x":
+        points[:, 0] = -points[:, 0]
+    return points
+
+
+def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", up: str = "+z",
+                 ground: float | None = None) -> Surface:
+    """Load and orient a surface; refuse what is not a usable vehicle surface."""
+    path = Path(path)
+    name = str(path)
+    if not path.is_file():
+        raise MeasureError(f"{name}: no such file")
+    if path.stat().st_size == 0:
+        raise MeasureError(f"{name}: the file is empty")
+    suffix = path.suffix.lower()
+    if suffix == ".csv":
+        return _load_profile(path, units, nose, ground)
+    if suffix not in MESH_SUFFIXES:
+        raise MeasureError(f"{name}: unknown surface format '{suffix}'; give an STL, OBJ or PLY mesh or a CSV profile")
+    import trimesh
+
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            mesh = trimesh.load(str(path), force="mesh", process=False)
+    except Exception as error:  # noqa: BLE001 - trimesh raises many types on bad files
+        raise MeasureError(f"{name}: not a readable mesh ({type(error).__name__}: {error})") from None
+    if not isinstance(mesh, trimesh.Trimesh) or len(mesh.faces) == 0:
+        raise MeasureError(f"{name}: the file holds no triangles")
+    notes = []
+    vertices = np.asarray(mesh.vertices, dtype=float)
+    if not np.isfinite(vertices).all():
+        raise MeasureError(f"{name}: the mesh has vertices that are not finite numbers")
+    unique = len(np.unique(vertices.round(9), axis=0))
+    if unique < len(vertices) and suffix != ".stl":  # STL always repeats vertices; that is its format
+        notes.append(f"warning: {len(vertices) - unique} duplicated vertices (measured anyway)")
+    areas = mesh.area_faces
+    if (areas <= 1e-18).any():
+        notes.append(f"warning: {int((areas <= 1e-18).sum())} degenerate faces (measured anyway)")
+    mesh.merge_vertices()
+    if not mesh.is_watertight:
+        notes.append("warning: the surface is not watertight (measured anyway; sections may show gaps)")
+    extent = float(np.ptp(vertices, axis=0).max())
+    scale, unit, note = _scale_for(extent, units)
+    _check_size(extent * scale, name)
+    points = _frame(np.asarray(mesh.vertices) * scale, nose, up)
+    base = points[:, 2].min() if ground is None else ground * scale
+    points[:, 2] -= base
+    points[:, 0] -= points[:, 0].min()
+    ground_note = "ground plane at the lowest point" if ground is None else f"ground plane at z = {ground:g} {unit}"
+    return Surface(points, np.asarray(mesh.faces), units=unit, units_note=f"{note}; {ground_note}", notes=notes,
+                   source=path.name)
+
+
+def _load_profile(path: Path, units: str | None, nose: str, ground: float | None) -> Surface:
+    name = str(path)
+    try:
+        text = path.read_text(encoding="utf-8-sig")
+    except UnicodeDecodeError:
+        raise MeasureError(f"{name}: not a UTF-8 text CSV file") from None
+    rows = [r for r in csv.reader(io.StringIO(text)) if r and not r[0].lstrip().startswith("#")]
+    if not rows:
+        raise MeasureError(f"{name}: the CSV file has no rows")
+    header = [h.strip().lower() for h in rows[0]]
+    if header[:2] not in (["x", "z"], ["x", "y"]):
+        raise MeasureError(f"{name}:1: the header must be 'x,z' (centreline) or 'x,y' (plan outline), got "
+                           f"'{','.join(rows[0])}'")
+    values = []
+    for number, row in enumerate(rows[1:], start=2):
+        try:
+            values.append((float(row[0]), float(row[1])))
+        except (ValueError, IndexError):
+            raise MeasureError(f"{name}:{number}: cannot read '{','.join(row)}' as two numbers") from None
+    points = np.array(values)
+    if len(points) < 10:
+        raise MeasureError(f"{name}: a profile needs at least 10 points, got {len(points)}")
+    extent = float(np.ptp(points, axis=0).max())
+    scale, unit, note = _scale_for(extent, units)
+    _check_size(extent * scale, name)
+    points = points * scale
+    if nose == "+x":
+        points[:, 0] = -points[:, 0]
+    points[:, 0] -= points[:, 0].min()
+    kind = "centreline" if header[1] == "z" else "plan"
+    if kind == "centreline":
+        points[:, 1] -= points[:, 1].min() if ground is None else ground * scale
+    closed = np.vstack([points, points[:1]])
+    return Surface(None, None, profile=closed, profile_kind=kind, units=unit, units_note=note, source=path.name)
+
+
+@dataclass
+class Result:
+    """Everything measured on a surface."""
+
+    length: float | None = None
+    width: float | None = None
+    height: float | None = None
+    frontal_area: float | None = None
+    measurements: list[Measurement] = field(default_factory=list)
+    centreline: Outline | None = None
+    sections: list[dict] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+
+    def measured(self) -> dict[str, Measurement]:
+        return {m.key: m for m in self.measurements if m.measured}
+
+
+def _polyline_points(segments2d: np.ndarray, length: float) -> np.ndarray:
+    return densify(segments2d, length / 3000)
+
+
+def measure(surface: Surface, heights: list[float] | None = None) -> Result:
+    """Measure a loaded surface."""
+    if surface.profile is not None:
+        return _measure_profile(surface)
+    v, f = surface.vertices, surface.faces
+    result = Result(notes=[surface.units_note, *surface.notes])
+    length, width, top = (float(np.ptp(v[:, 0])), float(np.ptp(v[:, 1])), float(v[:, 2].max()))
+    result.length, result.width, result.height = length, width, top
+    result.frontal_area = projected_area(v, f, axis=0)
+    dims = [("dimensions.length", length, "x extent of the surface"),
+            ("dimensions.width", width, "y extent of the surface (mirrors included if modelled)"),
+            ("dimensions.height", top, "highest point above the ground plane"),
+            ("dimensions.frontal_area", result.frontal_area,
+             "area of the union of all faces projected along x (2000 scan lines)")]
+    result.measurements += [Measurement(k, value, method) for k, value, method in dims]
+    middle = 0.5 * (v[:, 1].min() + v[:, 1].max())
+    cut = slice_mesh(v, f, 1, middle)
+    if len(cut) < 10:
+        result.notes.append("the symmetry plane cuts too few faces for a centreline section")
+    else:
+        result.centreline = outline(_polyline_points(cut[:, :, [0, 2]], length), bins=2500)
+        result.measurements += measure_centreline(result.centreline, 0.0)
+    heights = heights or [h for h in np.arange(SECTION_STEP, 0.95 * top, SECTION_STEP)]  # below the roof skin
+    belt = 0.55 * top
+    window = min(0.3, 0.1 * length)
+    for h in sorted(set([round(float(h), 4) for h in heights] + [round(belt, 4)])):
+        cut = slice_mesh(v, f, 2, h)
+        if len(cut) < 10:
+            continue
+        plan = outline(_polyline_points(cut[:, :, [0, 1]], length), bins=600)
+        taper = plan_taper(plan, window)
+        entry = {"height_m": h, "width_m": float(plan.upper[:, 1].max() - plan.lower[:, 1].min()),
+                 "taper_deg": None if taper.value is None else math.degrees(taper.value), "method": taper.method,
+                 "outline": plan}
+        result.sections.append(entry)
+        if h == round(belt, 4):
+            result.measurements.append(Measurement("rear.side_taper_angle", taper.value,
+                                                   f"section at belt height {h:.3f} m (0.55 x height): {taper.method}"))
+    return result
+
+
+def _measure_profile(surface: Surface) -> Result:
+    points = surface.profile
+    segments = np.stack([points[:-1], points[1:]], axis=1)
+    length = float(np.ptp(points[:, 0]))
+    shape = outline(densify(segments, length / 3000))
+    result = Result(notes=[surface.units_note, f"2-D {surface.profile_kind} profile: no frontal area or sections"])
+    result.length = length
+    if surface.profile_kind == "centreline":
+        result.height = float(points[:, 1].max())
+        result.centreline = shape
+        result.measurements += [Measurement("dimensions.length", length, "x extent of the profile"),
+                                Measurement("dimensions.height", result.height, "highest point of the profile")]
+        result.measurements += measure_centreline(shape, 0.0)
+    else:
+        result.width = float(np.ptp(points[:, 1]))
+        result.measurements += [Measurement("dimensions.length", length, "x extent of the plan outline"),
+                                Measurement("dimensions.width", result.width, "y extent of the plan outline")]
+        taper = plan_taper(shape, min(0.3, 0.1 * length))
+        result.measurements.append(taper)
+        result.sections.append({"height_m": None, "width_m": result.width,
+                                "taper_deg": None if taper.value is None else math.degrees(taper.value),
+                                "method": taper.method, "outline": shape})
+    return result
+
+
+# -- output ---------------------------------------------------------------------------
+def _shown(m: Measurement) -> tuple[float, str]:
+    unit = catalogue.feature(m.key).unit if m.key in catalogue.BY_KEY else ""
+    return from_si(m.value, unit) + 0.0, unit  # + 0.0: never show "-0"
+
+
+def as_json(result: Result) -> dict:
+    def line(points, keep=400):
+        step = max(1, len(points) // keep)
+        return [[round(float(x), 5), round(float(y), 5)] for x, y in points[::step]]
+
+    features = {}
+    for key, m in result.measured().items():
+        value, unit = _shown(m)
+        features[key] = {"value": value, "unit": unit, "method": m.method}
+    return {
+        "length_m": result.length, "width_m": result.width, "height_m": result.height,
+        "frontal_area_m2": result.frontal_area, "features": features,
+        "not_measured": {m.key: m.method for m in result.measurements if not m.measured},
+        "sections": {
+            "centreline": None if result.centreline is None else {"upper": line(result.centreline.upper),
+                                                                  "lower": line(result.centreline.lower)},
+            "horizontal": [{"height_m": s["height_m"], "width_m": s["width_m"], "taper_deg": s["taper_deg"],
+                            "method": s["method"], "upper": line(s["outline"].upper, 200),
+                            "lower": line(s["outline"].lower, 200)} for s in result.sections],
+        },
+        "notes": result.notes,
+    }
+
+
+def as_text(result: Result, source: str) -> str:
+    lines = [f"{source}: " + "; ".join(result.notes)]
+    width = max(len(m.key) for m in result.measurements) if result.measurements else 10
+    for m in result.measurements:
+        if m.measured:
+            value, unit = _shown(m)
+            lines.append(f"  {m.key:<{width}}  {f'{value:.4g} {unit}'.strip():>14}  {m.method}")
+        else:
+            lines.append(f"  {m.key:<{width}}  {'not measured':>14}  {m.method}")
+    for s in result.sections:
+        taper = "-" if s["taper_deg"] is None else f"{s['taper_deg']:.1f} deg"
+        where = "plan outline" if s["height_m"] is None else f"z = {s['height_m']:.3f} m"
+        lines.append(f"  section {where}: width {s['width_m']:.3f} m, rear taper {taper}")
+    return "\n".join(lines) + "\n"
+
+
+# -- merging into a sheet -------------------------------------------------------------
+def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwrite: bool = False) -> dict:
+    """Write the measured features into a sheet, keeping comments and the user's values.
+
+    Returns {"added": [...], "kept": [...], "replaced": [...], "backup": path or None}.
+    Nothing is written when the merged sheet would not validate.
+    """
+    from ruamel.yaml import YAML
+    from ruamel.yaml.comments import CommentedMap
+
+    path = Path(sheet_path)
+    text = yamldoc.read_text(path)
+    yaml = YAML()
+    yaml.preserve_quotes = True
+    try:
+        data = yaml.load(text)
+    except Exception as error:  # noqa: BLE001 - ruamel raises many parser types
+        raise InputError([Problem(str(path), 1, 1, f"cannot read the sheet: {error}", "fix the YAML first")]) from None
+    if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
+        raise InputError([Problem(str(path), 1, 1, "the sheet has no 'features' mapping", "add `features:`")])
+    features = data["features"]
+    report = {"added": [], "kept": [], "replaced": [], "backup": None}
+    for key, m in result.measured().items():
+        if key not in catalogue.BY_KEY:
+            continue
+        value, unit = _shown(m)
+        entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
+        entry.fa.set_flow_style()
+        if key in features:
+            if not overwrite:
+                report["kept"].append(key)
+                continue
+            report["replaced"].append(key)
+        else:
+            report["added"].append(key)
+        features[key] = entry
+    buffer = io.StringIO()
+    yaml.dump(data, buffer)
+    new_text = buffer.getvalue()
+    from_document(yamldoc.parse(new_text, str(path)), path.parent)  # raises InputError: nothing written
+    if report["replaced"]:
+        backup = path.with_name(path.name + ".bak")
+        number = 1
+        while backup.exists():
+            backup = path.with_name(f"{path.name}.bak{number}")
+            number += 1
+        shutil.copy2(path, backup)
+        report["backup"] = str(backup)
+    temporary = path.with_name(f".{path.name}.tmp")
+    temporary.write_text(new_text, encoding="utf-8")
+    temporary.replace(path)
+    return report
+
+
+# -- figures --------------------------------------------------------------------------
+def _thin(points, keep=300) -> list[list[float]]:
+    step = max(1, len(points) // keep)
+    return [[round(float(x), 4), round(float(y), 4)] for x, y in points[::step]]
+
+
+def silhouette_data(result: Result, statuses: dict[str, str] | None = None, title: str = "") -> dict:
+    """Figure data for the centreline section: the outline split into zones (coloured by
+    ``statuses``, zone -> review status, when given) and the measured angles and radii."""
+    line = result.centreline
+    measured = result.measured()
+    screen = measured.get("windshield.angle")
+    front_end = screen.span[0] if screen and screen.span else line.x_min + 0.25 * (line.x_max - line.x_min)
+    screen_end = screen.span[1] if screen and screen.span else front_end
+    statuses = statuses or {}
+    parts = []
+    for zone, points in (("front", line.upper[line.upper[:, 0] <= front_end]),
+                         ("windshield", line.upper[(line.upper[:, 0] >= front_end) & (line.upper[:, 0] <= screen_end)]),
+                         ("rear", line.upper[line.upper[:, 0] >= screen_end]),
+                         ("underbody", line.lower)):
+        if len(points) > 1:
+            parts.append({"zone": zone, "status": statuses.get(zone, ""), "points": _thin(points)})
+    notes = []
+    for key, label in (("windshield.angle", "windshield"), ("rear.backlight_angle", "backlight"),
+                       ("rear.decklid_angle", "decklid"), ("underbody.diffuser_angle", "diffuser"),
+                       ("rear.roof_backlight_radius", "roof radius"), ("front.upper_edge_radius", "front radius")):
+        m = measured.get(key)
+        if m and m.span:
+            value, unit = _shown(m)
+            x = 0.5 * (m.span[0] + m.span[1])
+            source = line.lower if key.startswith("underbody") else line.upper
+            z = float(np.interp(x, source[:, 0], source[:, 1]))
+            notes.append({"text": f"{label} {value:.3g} {unit}", "x": round(x, 4), "z": round(z, 4)})
+    return {"parts": parts, "notes": notes, "title": title or "Centreline section with measured angles and radii"}
+
+
+def sections_data(result: Result) -> dict:
+    return {"sections": [{"label": ("plan outline" if s["height_m"] is None else f"z = {s['height_m']:.2f} m")
+                          + (f", taper {s['taper_deg']:.1f} deg" if s["taper_deg"] is not None else ""),
+                          "upper": _thin(s["outline"].upper, 200), "lower": _thin(s["outline"].lower, 200)}
+                         for s in result.sections]}
+
+
+def write_figures(result: Result, folder: Path, source: str) -> list[Path]:
+    """Draw the centreline section and the horizontal sections as SVG into ``folder``."""
+    from aeroreview.site.figures import FigureCache
+
+    folder.mkdir(parents=True, exist_ok=True)
+    cache = FigureCache(None)
+    written = []
+    if result.centreline is not None:
+        _, svg = cache.svg("silhouette", silhouette_data(result, title=f"{source}: centreline section"))
+        written.append(folder / "centreline.svg")
+        written[-1].write_bytes(svg)
+    if result.sections:
+        _, svg = cache.svg("sections", sections_data(result))
+        written.append(folder / "sections.svg")
+        written[-1].write_bytes(svg)
+    return written
