@@ -145,8 +145,8 @@ def _load_profile(path: Path, units: str | None, nose: str, ground: float | None
         except (ValueError, IndexError):
             raise MeasureError(f"{name}:{number}: cannot read '{','.join(row)}' as two numbers") from None
     points = np.array(values)
-    if len(points) < 10:
-        raise MeasureError(f"{name}: a profile needs at least 10 points, got {len(points)}")
+    if len(points) < 4:
+        raise MeasureError(f"{name}: a profile needs at least 4 points, got {len(points)}")
     extent = float(np.ptp(points, axis=0).max())
     scale, unit, note = _scale_for(extent, units)
     _check_size(extent * scale, name)
