@@ -16,8 +16,13 @@ import numpy as np
 CHUNK = 200_000  # triangles per batch: bounds the memory of the crossing arrays
 
 
-def projected_area(vertices: np.ndarray, faces: np.ndarray, axis: int = 0, rows: int = 2000) -> float:
+def projected_area(vertices: np.ndarray, faces: np.ndarray, axis: int = 0, rows: int = 2000,
+                   one_sided: bool = False) -> float:
     """Area [m^2] of the union of the faces projected along ``axis`` (0 = x: the frontal area).
+
+    ``one_sided``: the surface is closed and consistently wound, so the faces turned one way
+    along ``axis`` already cover the whole silhouette (every line that meets the body enters
+    it through one of them); only those are scanned, which halves the work.
 
     Example: a unit cube seen along x covers exactly 1 m^2.
 
@@ -33,7 +38,11 @@ def projected_area(vertices: np.ndarray, faces: np.ndarray, axis: int = 0, rows:
     of triangles.
     """
     keep = [i for i in range(3) if i != axis]
-    tri = np.asarray(vertices, dtype=float)[np.asarray(faces)][:, :, keep]  # (n, 3, 2): u across, w up
+    full = np.asarray(vertices, dtype=float)[np.asarray(faces)]
+    if one_sided:
+        normal = np.cross(full[:, 1] - full[:, 0], full[:, 2] - full[:, 0])[:, axis]
+        full = full[normal > 0]
+    tri = full[:, :, keep]  # (n, 3, 2): u across, w up
     if len(tri) == 0:
         return 0.0
     w_min, w_max = tri[:, :, 1].min(), tri[:, :, 1].max()
@@ -84,10 +93,10 @@ def _union_length(row, start, end, lines, rows) -> float:
     """Total length of the union of intervals, line by line (sort, then sweep with a running max)."""
     if len(row) == 0:
         return 0.0
-    order = np.lexsort((start, row))
-    row, start, end = row[order], start[order], end[order]
-    # Running maximum of the interval ends within each line: offset every line far apart.
+    # Sort by (line, start) with one float key: every line offset far from the others.
     span = float(max(np.abs(start).max(), np.abs(end).max())) * 4 + 1.0
+    order = np.argsort(start + row * span, kind="stable")
+    row, start, end = row[order], start[order], end[order]
     shifted = end + row * span
     running = np.maximum.accumulate(shifted) - row * span
     previous = np.concatenate(([-np.inf], running[:-1]))
