@@ -41,13 +41,7 @@ ZONES: dict[str, str] = {
 # The zones a review scores (rules and attachments use them): the body zones above that
 # carry rules, plus the two computed ones.
 REVIEW_ZONES: dict[str, str] = {
-    "front": "Front",
-    "windshield": "Windshield and A-pillars",
-    "rear": "Roof and rear",
-    "sides": "Sides and mirrors",
-    "underbody": "Underbody and diffuser",
-    "wheels": "Wheels and wheelhouses",
-    "cooling": "Cooling and internal flow",
+    **{zone: ZONES[zone] for zone in ("front", "windshield", "rear", "sides", "underbody", "wheels", "cooling")},
     "stability": "Lift and stability",
     "data": "Data quality",
 }

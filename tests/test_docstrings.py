@@ -10,9 +10,11 @@ import pytest
 
 MODULES = ["aeroreview.calc.air", "aeroreview.calc.forces", "aeroreview.calc.roadload", "aeroreview.calc.cycles",
            "aeroreview.calc.wind", "aeroreview.calc.references", "aeroreview.units"]
+GEOMETRY = ["aeroreview.calc.geometry.projection", "aeroreview.calc.geometry.sections",
+            "aeroreview.calc.geometry.fits", "aeroreview.calc.geometry.construct"]
 
 
-@pytest.mark.parametrize("name", MODULES)
+@pytest.mark.parametrize("name", MODULES + GEOMETRY)
 def test_doctest_examples_pass(name):
     result = doctest.testmod(importlib.import_module(name))
     assert result.failed == 0

@@ -20,7 +20,7 @@ from aeroreview.calc.geometry.construct import filleted_polyline, loft, profile_
 LENGTH, WIDTH = 4.87, 1.92
 # Design intent per revision (the same numbers as the sheets): angles in deg, radii in m.
 DESIGNS = {
-    "r1": {"windshield": 27, "backlight": 29, "decklid": -4, "roof_radius": 0.04, "front_radius": 0.035,
+    "r1": {"windshield": 27, "backlight": 29, "decklid": 4, "roof_radius": 0.04, "front_radius": 0.035,
            "diffuser": 15, "diffuser_length": 0.62, "taper": 2},
     "r2": {"windshield": 27, "backlight": 22, "decklid": 2, "roof_radius": 0.38, "front_radius": 0.085,
            "diffuser": 8, "diffuser_length": 0.70, "taper": 9},
