@@ -66,7 +66,7 @@ def build(d: dict, stations: int = 60, ring: int = 36):
         if value - x[-1] > 2e-3 or value == candidates[-1]:
             x.append(value)
     x = np.clip(np.array(x), 1e-4, LENGTH - 1e-4)
-    return loft(x, bottom(x), top(x), np.maximum(width(x), 0.05), corner_radius=0.18, ring=ring)
+    return loft(x, bottom(x), top(x), np.maximum(width(x), 0.05), corner_radius=0.12, ring=ring)
 
 
 def write_mesh(path: Path, vertices, faces) -> None:
