@@ -13,32 +13,27 @@ Run: python bench/check.py [N ...]
 from __future__ import annotations
 
 import random
-import re
 import sys
 import tempfile
 import time
 from pathlib import Path
 
 import yaml
+from synthetic import DEMO, identity, templates, vary
 
 from aeroreview.review import review_sheet
 from aeroreview.settings import Settings
 from aeroreview.sheet import load_sheet
 
-DEMO = Path(__file__).resolve().parents[1] / "vehicles"
-NUMBER = re.compile(r"(?<=: )(\d+\.?\d*)(?= (mm|deg|m|kg|m\^2|kWh|km/h|%|in|L)\b)")
 
 
 def make_sheets(folder: Path, count: int, seed: int = 1) -> list[Path]:
-    """Write ``count`` sheets: demo sheets with every number scaled by up to +-3 %."""
+    """Write ``count`` sheets: demo sheets with every number scaled by up to +-1 %."""
     rng = random.Random(seed)
-    templates = [p.read_text(encoding="utf-8") for p in sorted(DEMO.rglob("*.yaml"))]
+    sources = templates()
     paths = []
     for i in range(count):
-        text = templates[i % len(templates)]
-        text = NUMBER.sub(lambda m: f"{float(m.group(1)) * rng.uniform(0.99, 1.01):.4g}", text)
-        text = re.sub(r"^id: (\S+)", rf"id: \1-{i}", text, flags=re.M)
-        text = re.sub(r"^parent: .*\n", "", text, flags=re.M)
+        text = identity(vary(sources[i % len(sources)], rng, 0.01), f"car-{i}", "r1", None)
         path = folder / f"sheet-{i:05d}.yaml"
         path.write_text(text, encoding="utf-8")
         paths.append(path)

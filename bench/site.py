@@ -12,7 +12,6 @@ Run: python bench/site.py [VEHICLES ...]
 from __future__ import annotations
 
 import random
-import re
 import shutil
 import sys
 import tempfile
@@ -20,24 +19,19 @@ import time
 from pathlib import Path
 
 from aeroreview.site.build import build_site
+from synthetic import templates, vary, identity
 
 ROOT = Path(__file__).resolve().parents[1]
-NUMBER = re.compile(r"(?<=: )(\d+\.?\d*)(?= (mm|deg|m|kg|m\^2|kWh|km/h|%|in|L)\b)")
 
 
 def make_fleet(folder: Path, vehicles: int, seed: int = 7) -> None:
+    """Write ``vehicles`` x 3 revisions, each a demo sheet with its numbers varied by +-3 %."""
     rng = random.Random(seed)
-    templates = [p.read_text(encoding="utf-8") for p in sorted((ROOT / "vehicles").glob("*/r*.yaml"))]
+    sources = templates()
     for v in range(vehicles):
-        base = templates[v % len(templates)]
-        base = re.sub(r"^attachments:.*", "", base, flags=re.M | re.S)  # no image files in the synthetic fleet
         for r in range(1, 4):
-            text = NUMBER.sub(lambda m: f"{float(m.group(1)) * rng.uniform(0.97, 1.03):.4g}", base)
-            text = re.sub(r"^id: .*", f"id: car-{v:03d}", text, flags=re.M)
-            text = re.sub(r"^revision: .*", f"revision: r{r}", text, flags=re.M)
-            text = re.sub(r"^parent: .*\n", "", text, flags=re.M)
-            if r > 1:
-                text = text.replace(f"revision: r{r}\n", f"revision: r{r}\nparent: r{r - 1}\n")
+            text = identity(vary(sources[v % len(sources)], rng, 0.03), f"car-{v:03d}", f"r{r}",
+                            f"r{r - 1}" if r > 1 else None)
             path = folder / "vehicles" / f"car-{v:03d}" / f"r{r}.yaml"
             path.parent.mkdir(parents=True, exist_ok=True)
             path.write_text(text, encoding="utf-8")

@@ -16,6 +16,7 @@ from functools import cached_property, lru_cache
 from importlib import resources
 
 import numpy as np
+import pandas as pd
 
 
 @dataclass(frozen=True)
@@ -83,9 +84,11 @@ def wltc_class3b() -> Cycle:
 
     Reference: UN GTR No. 15, Worldwide harmonized Light vehicles Test Procedure, Annex 1.
     """
-    text = resources.files("aeroreview.calc").joinpath("data/wltc_class3b.csv").read_text(encoding="utf-8")
-    rows = [line for line in text.splitlines() if line and not line.startswith("#")][1:]
-    speed_kmh = np.array([float(row.split(",")[1]) for row in rows])
+    with resources.files("aeroreview.calc").joinpath("data/wltc_class3b.csv").open("r", encoding="utf-8") as handle:
+        trace = pd.read_csv(handle, comment="#")
+    if list(trace.columns) != ["time_s", "speed_km_h"] or len(trace) != 1801:
+        raise ValueError("the packaged WLTC trace is damaged: expected time_s, speed_km_h and 1801 rows")
+    speed_kmh = trace["speed_km_h"].to_numpy(dtype=float)
     phases = (Phase("Low", 0, 589), Phase("Medium", 589, 1022), Phase("High", 1022, 1477),
               Phase("Extra High", 1477, 1800))
     return Cycle("wltc-3b", speed_kmh / 3.6, phases, WLTC_SOURCE)
