@@ -108,7 +108,7 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
 
     if not isinstance(section, dict):
         raise InputError([doc.problem(path, "the aeroreview settings must be a mapping", "write key: value lines")])
-    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "output")
+    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules")
     for key in section:
         if key not in allowed:
             error((key,), f"unknown setting '{key}'", suggest(str(key), allowed), key=True)

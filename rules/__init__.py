@@ -27,7 +27,7 @@ from dataclasses import dataclass
 from typing import Callable
 
 from aeroreview.catalogue import REVIEW_ZONES
-from aeroreview.units import format_quantity, to_si
+from aeroreview.units import to_si
 
 STATUSES = ("pass", "advisory", "warning", "failure")  # in rising order of concern
 NOT_ASSESSED = "not assessed"
@@ -69,9 +69,6 @@ class Threshold:
 
     def parse(self, value) -> float:
         return to_si(value, self.unit)
-
-    def show(self, si_value: float) -> str:
-        return format_quantity(si_value, self.unit)
 
 
 @dataclass(frozen=True)
@@ -211,11 +208,6 @@ def body_scale(sheet) -> float | None:
     if area is None and sheet.has("dimensions.width", "dimensions.height"):
         area = FRONTAL_AREA_FACTOR * sheet.get("dimensions.width") * sheet.get("dimensions.height")
     return math.sqrt(area) if area else None
-
-
-def show(value: float, unit: str) -> str:
-    """An SI value in ``unit`` for a message."""
-    return format_quantity(value, unit)
 
 
 def counts_range(low: float, high: float) -> tuple[float, float]:

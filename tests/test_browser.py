@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import functools
 import http.server
-import shutil
 import threading
 from pathlib import Path
 

@@ -172,7 +172,7 @@ class _Writer:
 
     # -- revision ------------------------------------------------------------------
     def revision_page(self, review: Review) -> None:
-        sheet, numbers = review.sheet, review.key_numbers
+        sheet = review.sheet
         lines = [heading(f"{sheet.name}, revision {sheet.revision}"), "",
                  f"[{esc(sheet.name)}](index.md) · class {sheet.get('vehicle.class')} · reviewed "
                  f"{sheet.reviewed or 'date not given'}{' by ' + esc(sheet.reviewer) if sheet.reviewer else ''} · "
@@ -197,7 +197,7 @@ class _Writer:
         self.site.files[self.revision_path(review)] = "\n".join(lines)
 
     def key_numbers(self, review: Review) -> list[str]:
-        n, sheet = review.key_numbers, review.sheet
+        n = review.key_numbers
         ref = n["reference_speed_km_h"]
         rows = [("Drag coefficient Cd", f"{n['cd']:.3f} ({'estimated' if n['cd_estimated'] else 'measured'}: "
                                         f"{esc(n['cd_source'])})"),
