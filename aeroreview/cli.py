@@ -13,7 +13,7 @@ import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, calc_cli, report, review, schema, template
+from aeroreview import __version__, calc_cli, calibrate_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError
 from aeroreview.rules import REGIONS, ZONES, all_rules
@@ -55,7 +55,7 @@ def _cmd_check(args) -> int:
     bad_files = {p.file for p in problems}
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
     counted = report.new_or_worse(reviews, report.load_baseline(args.baseline)) if args.baseline else None
-    notices = fleet.warnings + [n for r in reviews for n in r.notices]
+    notices = settings.notices + fleet.warnings + [n for r in reviews for n in r.notices]
     data = report.as_json(reviews, problems + notices, fail_on, counted)
     if args.format == "json":
         text = json.dumps(data, indent=2, default=str) + "\n"
@@ -221,6 +221,7 @@ def build_parser() -> argparse.ArgumentParser:
     site.set_defaults(run=_cmd_site)
 
     calc_cli.add_parser(sub)
+    calibrate_cli.add_parser(sub)
     return parser
 
 

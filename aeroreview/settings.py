@@ -13,6 +13,7 @@ site always agree::
           rules:
             rear.backlight-angle: {severity: warning, thresholds: {critical_low: 27 deg}}
             wheels.rear-strakes: {disabled: true}
+          calibrations: [vehicles/tessel/studies/rear-doe.calibration.yaml]   # aeroreview calibrate
 
 Unknown keys, rule ids and threshold names are errors, located in the file.
 """
@@ -23,10 +24,10 @@ from dataclasses import dataclass, field
 from functools import cached_property, lru_cache
 from pathlib import Path
 
-from aeroreview import yamldoc
+from aeroreview import calibration, yamldoc
 from aeroreview.calc.air import Air, air_state
 from aeroreview.calc.cycles import cycle_by_name
-from aeroreview.problems import InputError, UsageError
+from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.rules import SEVERITIES, STATUSES, Context, Rule, all_rules
 from aeroreview.sheet import suggest
 from aeroreview.units import UnitProblem, to_si
@@ -55,6 +56,8 @@ class Settings:
     cycle: str = "wltc-3b"
     fail_on: str = "failure"
     overrides: dict[str, RuleOverride] = field(default_factory=dict)
+    calibrations: list[calibration.Calibration] = field(default_factory=list)
+    notices: list[Problem] = field(default_factory=list)  # doubts about the settings (unused calibrations)
     source: str = "built-in defaults"
 
     def air(self) -> Air:
@@ -76,6 +79,11 @@ class Settings:
                               air.kinematic_viscosity)
             plan.append((rule, context, override.severity or rule.severity))
         return plan
+
+    @cached_property
+    def calibrated(self) -> dict:
+        """The team's drag slope of each calibrated feature (:func:`aeroreview.calibration.index`)."""
+        return calibration.index(self.calibrations)
 
     @property
     def sheets_path(self) -> Path:
@@ -108,7 +116,7 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
 
     if not isinstance(section, dict):
         raise InputError([doc.problem(path, "the aeroreview settings must be a mapping", "write key: value lines")])
-    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules")
+    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "calibrations")
     for key in section:
         if key not in allowed:
             error((key,), f"unknown setting '{key}'", suggest(str(key), allowed), key=True)
@@ -157,9 +165,37 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
             error(("fail_on",), f"fail_on must be one of {', '.join(FAIL_LEVELS)}", suggest(str(section["fail_on"]),
                                                                                            FAIL_LEVELS))
     settings.overrides = _overrides(section.get("rules") or {}, error)
+    settings.calibrations = _calibrations(section.get("calibrations") or [], root, error, problems)
+    settings.notices = calibration.notices(settings.calibrations)
     if problems:
         raise InputError(problems)
     return settings
+
+
+def inside(root: Path, name: str) -> Path | None:
+    """``name`` resolved (symlinks included) under ``root``, or None when it leaves it."""
+    target = (root / name).resolve()
+    return target if target.is_relative_to(root.resolve()) else None
+
+
+def _calibrations(names, root: Path, error, problems) -> list[calibration.Calibration]:
+    if not isinstance(names, list):
+        error(("calibrations",), "'calibrations' must be a list of files", "e.g. calibrations: [studies/doe.yaml]")
+        return []
+    out = []
+    for i, name in enumerate(names):
+        target = inside(root, str(name)) if isinstance(name, str) else None
+        if target is None:
+            error(("calibrations", i), f"calibration '{name}' is not a file inside the knowledge base",
+                  "give a path relative to mkdocs.yml, without '..'")
+        elif not target.is_file():
+            error(("calibrations", i), f"calibration '{name}' does not exist", f"looked for {target}")
+        else:
+            try:
+                out.append(calibration.load_calibration(target, name))
+            except InputError as failure:
+                problems.extend(failure.problems)
+    return out
 
 
 def _overrides(data, error) -> dict[str, RuleOverride]:

@@ -46,6 +46,7 @@ class AeroreviewConfig(base.Config):
     cycle = c.Type(str, default="wltc-3b")
     fail_on = c.Type(str, default="failure")
     rules = c.Type(dict, default={})
+    calibrations = c.Type(list, default=[])
 
 
 def fleet_epoch(reviews) -> int:
