@@ -13,7 +13,7 @@ site always agree::
           rules:
             rear.backlight-angle: {severity: warning, thresholds: {critical_low: 27 deg}}
             wheels.rear-strakes: {disabled: true}
-          calibrations: [vehicles/tessel/studies/rear-doe.calibration.yaml]   # aeroreview calibrate
+          calibrations: [studies/tessel/rear-doe.calibration.yaml]   # aeroreview calibrate
 
 Unknown keys, rule ids and threshold names are errors, located in the file.
 """

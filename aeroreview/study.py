@@ -197,8 +197,9 @@ def _mappings(table: _Table, maps: list[str], response: str | None, problems: li
             try:
                 to_si(f"1 {unit}", feature.unit)
             except UnitProblem:
-                where(f"'{unit}' is not a unit of {describe_dimension(feature.unit)} ({key} is in {feature.unit})",
-                      f"write e.g. {column}={key}:{feature.unit}")
+                example = feature.unit or "%"
+                where(f"'{unit}' is not a unit of {describe_dimension(feature.unit)} ({key} is in {feature.unit_label()})",
+                      f"write e.g. {column}={key}:{example}")
                 continue
             out.append(Mapping(column, key, unit))
             seen_columns.add(column)
@@ -246,7 +247,7 @@ def read_study(path: Path | str, maps: list[str], response: str | None = None, d
     if dropped:
         shown = ", ".join(map(str, dropped[:10])) + (" ..." if len(dropped) > 10 else "")
         warnings.append(Problem(file, dropped[0], 1, f"dropped {len(dropped)} row(s) with missing values "
-                                                     f"(lines {shown})", "fill the cells to use those rows",
+                                                     f"({'line' if len(dropped) == 1 else 'lines'} {shown})", "fill the cells to use those rows",
                                 "warning"))
     x, y = x[complete], y[complete] * scale
     for j, mapping in enumerate(mappings):
