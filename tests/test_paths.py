@@ -90,7 +90,8 @@ def test_site_build_publishes_nothing_from_outside(tmp_path, outside):
     image.symlink_to(outside / "secret.png")
     run = run_cli("site", "build", "--config", kb / "mkdocs.yml", "--output", tmp_path / "out")
     assert run.code == 2
-    assert f"{sheet}:86:" in run.err and "leaves the sheet's folder" in run.err
+    line = sheet.read_text(encoding="utf-8").splitlines().index("  - file: img/r1-roof-end.png") + 1
+    assert f"{sheet}:{line}:" in run.err and "leaves the sheet's folder" in run.err
     published = [p for p in tmp_path.rglob("*") if p.is_file() and not p.is_symlink() and outside not in p.parents]
     assert not any(SECRET in p.read_text(errors="replace") for p in published)
     assert not (tmp_path / "out").exists()
