@@ -320,9 +320,20 @@ def test_clean_demo_revision_stays_clean_with_the_calibration(cli):
     assert run.code == 0
 
 
-def test_a_calibrated_feature_no_rule_uses_is_reported(cli):
-    run = cli("check", ROOT / "vehicles/tessel/r2.yaml", "--config", DEMO_CONFIG)
-    assert f"{DEMO_CALIBRATION}:1:1: warning: no rule states a sensitivity for wheels.tyre_width" in run.err
+def test_a_calibrated_feature_no_rule_uses_is_library_silent_and_reported(cli, tmp_path):
+    def add_tyre_width(lines):
+        lines[1] += ",tyre"
+        for i in range(2, len(lines)):
+            lines[i] += f",{215 + (i * 7) % 40}"
+    study = write_study(tmp_path, edit=add_tyre_width)
+    run = cli("calibrate", study, *GOOD_MAPS, "--map", "tyre=wheels.tyre_width", "--json", "--output",
+              tmp_path / "cal.yaml")
+    assert run.code == 0, run.err
+    assert json.loads(run.out)["sensitivities"][-1]["agreement"] == "library silent"
+    (tmp_path / "mkdocs.yml").write_text("site_name: t\nplugins:\n  - aeroreview:\n      calibrations: [cal.yaml]\n")
+    run = cli("check", ROOT / "vehicles/tessel/r2.yaml", "--config", tmp_path / "mkdocs.yml")
+    assert run.code == 0
+    assert "cal.yaml:1:1: warning: no rule states a sensitivity for wheels.tyre_width (column 'tyre')" in run.err
 
 
 def test_a_measured_value_outside_the_study_keeps_the_library_estimate(tmp_path):

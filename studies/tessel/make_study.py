@@ -14,7 +14,7 @@ Run it from the repository root, then refit the calibration (it refuses to overw
     SOURCE_DATE_EPOCH=1796083200 aeroreview calibrate studies/tessel/rear-doe.csv \\
         --map backlight_deg=rear.backlight_angle --map diffuser_deg=underbody.diffuser_angle \\
         --map side_taper_deg=rear.side_taper_angle --map rim_open_pct=wheels.rim_openness:% \\
-        --map tyre_width_mm=wheels.tyre_width --output studies/tessel/rear-doe.calibration.yaml
+        --output studies/tessel/rear-doe.calibration.yaml
 """
 
 from pathlib import Path
@@ -26,7 +26,7 @@ VARIANTS = 48
 NOISE_COUNTS = 1.5  # invented run-to-run scatter, 1 sigma
 # Parameter: (low, high) of the design, in the column's unit (invented around the Tessel r1 and r2).
 RANGES = {"backlight_deg": (20.0, 30.0), "diffuser_deg": (6.0, 16.0), "side_taper_deg": (0.0, 10.0),
-          "rim_open_pct": (15.0, 60.0), "tyre_width_mm": (215.0, 255.0)}
+          "rim_open_pct": (15.0, 60.0)}
 DIVERGED = 31  # the variant whose run "diverged" (no Cd)
 
 
@@ -34,7 +34,7 @@ def response_counts(p: dict) -> np.ndarray:
     """The invented truth: drag counts of a variant (curvature near the backlight's critical region)."""
     return (245.0 + 2.4 * (p["backlight_deg"] - 20) + 0.12 * (p["backlight_deg"] - 25) ** 2
             + 1.2 * (p["diffuser_deg"] - 6) - 1.45 * p["side_taper_deg"] + 0.45 * (p["rim_open_pct"] - 15)
-            + 0.3 * (p["tyre_width_mm"] - 215) + 0.05 * (p["diffuser_deg"] - 11) * (p["side_taper_deg"] - 5))
+            + 0.05 * (p["diffuser_deg"] - 11) * (p["side_taper_deg"] - 5))
 
 
 def latin_hypercube(rng: np.random.Generator, rows: int, ranges: dict) -> dict:
@@ -52,7 +52,7 @@ def main() -> None:
     design = latin_hypercube(rng, VARIANTS, RANGES)
     cd = (response_counts(design) + rng.normal(0.0, NOISE_COUNTS, VARIANTS)) / 1000
     lines = ["# Maroska Tessel rear-end CFD study (INVENTED DEMO DATA; made by make_study.py, see its docstring)",
-             "# one row per variant; angles in deg, rim openness in %, tyre width in mm; Cd at 140 km/h",
+             "# one row per variant; angles in deg, rim openness in %; Cd at 140 km/h",
              "run," + ",".join(RANGES) + ",Cd,note"]
     for i in range(VARIANTS):
         values = ",".join(f"{design[name][i]:.2f}" for name in RANGES)
