@@ -5,8 +5,8 @@ from __future__ import annotations
 import math
 
 from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd, ahmed_uncertainty
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Source, Threshold, body_scale, counts_range, major, minor,
-                              passed, rule)
+from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Sensitivity, Source, Threshold, body_scale,
+                              counts_range, major, minor, passed, rule)
 
 AHMED = Source(AHMED_SOURCE + ", SAE Transactions 93 (1984) 473-503 (title/authors/year/venue and abstract checked "
                "on a copy of the first page): critical slant angle about 30 deg, drag peak just below it; curve "
@@ -45,7 +45,10 @@ def slanted_rear(sheet) -> bool:
       sources=(AHMED, BAND, RADIUS_SOURCE, RADIUS_EFFECT,
                Source("effect: 20-60 % of the Ahmed-curve drag step (with the curve's uncertainty); production bodies "
                       "respond less than the Ahmed body; recalled, not checked", "from memory")),
-      applies_if=slanted_rear, figure="ahmed")
+      applies_if=slanted_rear, figure="ahmed",
+      sensitivity=Sensitivity("rear.backlight_angle", 3.2, "deg", (20, 28), "rising_low", Source(
+          "the Ahmed curve rises about 8 counts per deg from 20 to 28 deg (SAE 840300, values from memory); x 0.4 "
+          "for a production body, the middle of the rule's 20-60 %", "from memory")))
 def backlight_angle(sheet, ctx):
     """
     What it checks: where the backlight (rear window) angle lies on the Ahmed-body drag
@@ -125,7 +128,8 @@ _TAPER_THRESHOLDS = (
 
 @rule("rear.side-taper", "Rear plan-view taper (boat-tailing)", "warning",
       needs=("rear.side_taper_angle",), thresholds=_TAPER_THRESHOLDS,
-      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")))
+      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
+      sensitivity=Sensitivity("rear.side_taper_angle", -1.5, "deg", (0, 15), "useful", TAPER_SOURCE))
 def side_taper(sheet, ctx):
     """
     What it checks: the plan-view taper of the body sides over the last part of the body.
@@ -147,7 +151,8 @@ def side_taper(sheet, ctx):
 @rule("rear.roof-taper", "Roof drop toward the rear (side-view boat-tailing)", "warning",
       needs=("rear.roof_taper_angle",), optional=("rear.backlight_angle",), thresholds=_TAPER_THRESHOLDS,
       sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
-      applies_if=lambda sheet: not slanted_rear(sheet))
+      applies_if=lambda sheet: not slanted_rear(sheet),
+      sensitivity=Sensitivity("rear.roof_taper_angle", -1.5, "deg", (0, 15), "useful", TAPER_SOURCE))
 def roof_taper(sheet, ctx):
     """
     What it checks: the side-view drop of the roof over its last part on square-backed
@@ -222,7 +227,7 @@ def spoiler(sheet, ctx):
     return passed("the rear kick-up height is in the useful range", measured=measured, limit=limits)
 
 
-@rule("rear.roof-rails", "Roof rails", "warning",
+@rule("rear.roof-rails", "Roof rails", "warning", region="appendages",
       needs=("rear.roof_rails",),
       sources=(Source("effect: raised rails 5-15 counts; from memory (published production-car comparisons)",
                       "from memory"),))

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
 WHEEL_SOURCE = Source("rim design changes a car's drag by 10-20 counts: recalled, not checked. Looked for: SAE 970133 "
                       "(Wickern, Zwicker and Pfadenhauer 1997) is confirmed on a copy of its cover to be on rotating "
@@ -21,7 +21,9 @@ REFERENCE_RIM = 18 * 0.0254  # m: the rim size the counts per openness were reca
                   Threshold("closed", "20 %", "%", "open share a low-drag rim reaches", WHEEL_SOURCE)),
       optional=("wheels.rim_diameter",),
       sources=(WHEEL_SOURCE, WASCHLE, Source("effect: about 3-6 counts per 10 % of openness closed on 18 inch rims, "
-                                             "scaled with the rim disc area; recalled, not checked", "from memory")))
+                                             "scaled with the rim disc area; recalled, not checked", "from memory")),
+      sensitivity=Sensitivity("wheels.rim_openness", 0.45, "%", (10, 60), "closed", Source(
+          "the middle of about 3-6 counts per 10 % of openness", "from memory")))
 def rim_openness(sheet, ctx):
     """
     What it checks: the open share of the rim face (open area between the spokes over the
