@@ -27,6 +27,7 @@ from pathlib import Path
 from aeroreview import calibration, yamldoc
 from aeroreview.calc.air import Air, air_state
 from aeroreview.calc.cycles import cycle_by_name
+from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
 from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.rules import SEVERITIES, STATUSES, Context, Rule, all_rules
 from aeroreview.sheet import suggest
@@ -56,6 +57,7 @@ class Settings:
     cycle: str = "wltc-3b"
     fail_on: str = "failure"
     overrides: dict[str, RuleOverride] = field(default_factory=dict)
+    estimates: Model = DEFAULT_MODEL  # floors and region budgets of the combination model
     calibrations: list[calibration.Calibration] = field(default_factory=list)
     notices: list[Problem] = field(default_factory=list)  # doubts about the settings (unused calibrations)
     source: str = "built-in defaults"
@@ -116,7 +118,7 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
 
     if not isinstance(section, dict):
         raise InputError([doc.problem(path, "the aeroreview settings must be a mapping", "write key: value lines")])
-    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "calibrations")
+    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "estimates", "calibrations")
     for key in section:
         if key not in allowed:
             error((key,), f"unknown setting '{key}'", suggest(str(key), allowed), key=True)
@@ -165,6 +167,9 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
             error(("fail_on",), f"fail_on must be one of {', '.join(FAIL_LEVELS)}", suggest(str(section["fail_on"]),
                                                                                            FAIL_LEVELS))
     settings.overrides = _overrides(section.get("rules") or {}, error)
+    if "estimates" in section:
+        settings.estimates = model_from_mapping(section["estimates"], lambda where, *rest, **kw:
+                                                error(("estimates", *where), *rest, **kw))
     settings.calibrations = _calibrations(section.get("calibrations") or [], root, error, problems)
     settings.notices = calibration.notices(settings.calibrations)
     if problems:
