@@ -12,17 +12,23 @@ estimate (and says why), and a target outside it is held at the range's edge.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, replace
 from pathlib import Path
 
 import yaml
 
 from aeroreview import catalogue, yamldoc
-from aeroreview.problems import InputError, Problem
+from aeroreview.calibrate import as_json, fit_study
+from aeroreview.paths import PathProblem, contained_file
+from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.rules import Source, all_rules, counts_range
+from aeroreview.study import read_study
 from aeroreview.units import UnitProblem, to_si
 
 FORMAT = 1  # the calibration file's format version
+STUDY_SUFFIXES = (".csv", ".txt", ".dat", ".tsv")
+MAX_COMMENT_LINES = 5  # of the study's opening comments shown on its page
 HEADER = ("# aeroreview calibration: team sensitivities fitted from a parametric study by `aeroreview calibrate`.\n"
           "# Regenerate it from the study rather than editing the numbers.\n")
 
@@ -60,15 +66,19 @@ class Calibration:
         return self.models["linear"]["cv_r2"]
 
     @property
+    def slug(self) -> str:
+        """The calibration's page name on the site."""
+        stem = re.sub(r"\.(yaml|yml)$", "", self.file.lower())
+        return re.sub(r"[^a-z0-9]+", "-", stem).strip("-") or "calibration"
+
+    @property
     def label(self) -> str:
         """How a finding, a rule page and ``explain`` name the calibration."""
         return f"calibrated on {self.file} ({self.rows} rows, cross-validated R^2 {self.cv_r2:.2f})"
 
 
 def calibration_yaml(fit, study_file: str, date: str) -> str:
-    """The calibration file of a :class:`~aeroreview.calibrate.Fit`."""
-    from aeroreview.calibrate import as_json  # the fit's JSON is the file's body
-
+    """The calibration file of a :class:`~aeroreview.calibrate.Fit` (its JSON report is the body)."""
     report = as_json(fit)
     body = {
         "calibration": FORMAT,
@@ -196,3 +206,34 @@ def team_source(finding) -> Source | None:
         return None
     return Source(f"{calibration['label']}: {calibration['counts_per_unit']:+.3g} counts per {calibration['unit']} "
                   f"(95 % {calibration['ci95'][0]:+.3g} to {calibration['ci95'][1]:+.3g})", "team data")
+
+
+def _rounded(values) -> list[float]:
+    return [float(f"{v:.5g}") for v in values]
+
+
+def page_data(cal: Calibration, root: Path) -> dict:
+    """What a calibration's page shows, computed once: the slopes beside the library's, and,
+    from the study refitted (read through the contained-path gate), the cross-validated
+    predictions and the linear fit's residuals against each parameter."""
+    data = {"slopes": [{"label": f"{s.column} [per {s.unit}]", "fit": s.counts_per_unit, "ci95": list(s.ci95),
+                        "library": s.library_counts_per_unit} for s in cal.slopes], "note": "", "comments": []}
+    try:
+        folder = (root / cal.file).parent
+        path = contained_file(folder, cal.study_file, STUDY_SUFFIXES, "study", "a study table")
+        study = read_study(path, [f"{s.column}={s.feature}:{s.unit}" for s in cal.slopes], cal.response,
+                           display=cal.study_file)
+        fit = fit_study(study, "both" if "quadratic" in cal.models else "linear", cal.folds or 5)
+    except (PathProblem, InputError, UsageError) as problem:
+        data["note"] = f"the study cannot be refitted for the figures: {problem}"
+        return data
+    if study.sha256 != cal.study_sha256:
+        data["note"] = ("the study file has changed since this calibration was fitted (its sha256 differs): the "
+                        "figures show the current file; refit the calibration")
+    lines = path.read_text(encoding="utf-8-sig").splitlines()
+    data["comments"] = [line.lstrip("# ")[:300] for line in lines[:MAX_COMMENT_LINES] if line.startswith("#")]
+    data["measured"] = _rounded(study.y)
+    data["predicted"] = {name: _rounded(surface.predicted) for name, surface in fit.surfaces.items()}
+    data["residuals"] = [{"label": f"{m.column} [{m.unit}]", "x": _rounded(study.x[:, j]),
+                          "residual": _rounded(fit.residuals)} for j, m in enumerate(study.mappings)]
+    return data

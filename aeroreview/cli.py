@@ -151,6 +151,12 @@ def _cmd_explain(args) -> int:
         sens = rule.sensitivity
         print(f"\nSensitivity: {sens.counts_per_unit:+g} counts per {sens.unit} of {sens.feature} "
               f"({sens.valid[0]:g} to {sens.valid[1]:g} {sens.unit}) [{sens.source.kind}: {sens.source.citation}]")
+        calibrated = load_settings(args.config).calibrated.get(sens.feature)
+        if calibrated:
+            cal, slope = calibrated
+            print(f"  [team data] {cal.label}: {slope.counts_per_unit:+.3g} counts per {slope.unit} (95 % "
+                  f"{slope.ci95[0]:+.3g} to {slope.ci95[1]:+.3g}, {slope.agreement}); used inside "
+                  f"{slope.study_range[0]:g}-{slope.study_range[1]:g} {slope.unit}")
     print("\nSources:")
     for source in rule.sources:
         print(f"  [{source.kind}] {source.citation}")
@@ -190,6 +196,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     explain = sub.add_parser("explain", help="print a rule's documentation, thresholds and sources")
     explain.add_argument("rule_id", metavar="RULE_ID")
+    explain.add_argument("--config", help="settings file, for its calibrations (default ./mkdocs.yml)")
     explain.set_defaults(run=_cmd_explain)
 
     schema_cmd = sub.add_parser("schema", help="print the JSON Schema (draft 2020-12) of a sheet")

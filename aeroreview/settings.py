@@ -28,6 +28,7 @@ from aeroreview import calibration, yamldoc
 from aeroreview.calc.air import Air, air_state
 from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
+from aeroreview.paths import PathProblem, contained_file
 from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.rules import SEVERITIES, STATUSES, Context, Rule, all_rules
 from aeroreview.sheet import suggest
@@ -177,10 +178,7 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
     return settings
 
 
-def inside(root: Path, name: str) -> Path | None:
-    """``name`` resolved (symlinks included) under ``root``, or None when it leaves it."""
-    target = (root / name).resolve()
-    return target if target.is_relative_to(root.resolve()) else None
+CALIBRATION_SUFFIXES = (".yaml", ".yml")
 
 
 def _calibrations(names, root: Path, error, problems) -> list[calibration.Calibration]:
@@ -189,17 +187,15 @@ def _calibrations(names, root: Path, error, problems) -> list[calibration.Calibr
         return []
     out = []
     for i, name in enumerate(names):
-        target = inside(root, str(name)) if isinstance(name, str) else None
-        if target is None:
-            error(("calibrations", i), f"calibration '{name}' is not a file inside the knowledge base",
-                  "give a path relative to mkdocs.yml, without '..'")
-        elif not target.is_file():
-            error(("calibrations", i), f"calibration '{name}' does not exist", f"looked for {target}")
-        else:
-            try:
-                out.append(calibration.load_calibration(target, name))
-            except InputError as failure:
-                problems.extend(failure.problems)
+        try:
+            target = contained_file(root, name, CALIBRATION_SUFFIXES, "calibration", "a calibration file (YAML)")
+        except PathProblem as problem:
+            error(("calibrations", i), str(problem), problem.hint)
+            continue
+        try:
+            out.append(calibration.load_calibration(target, name))
+        except InputError as failure:
+            problems.extend(failure.problems)
     return out
 
 

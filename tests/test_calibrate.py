@@ -360,7 +360,7 @@ def test_a_measured_value_outside_the_study_keeps_the_library_estimate(tmp_path)
 
 
 @pytest.mark.parametrize("entry, expected", [
-    ("../outside.yaml", "is not a file inside the knowledge base"),
+    ("../outside.yaml", "calibration path '../outside.yaml' leaves the knowledge base"),
     ("studies/absent.yaml", "calibration 'studies/absent.yaml' does not exist"),
 ])
 def test_settings_refuse_calibrations_outside_the_knowledge_base_or_missing(cli, tmp_path, entry, expected):

@@ -102,7 +102,7 @@ def findings(review: Review) -> list[str]:
 
 
 def sources(f: Finding) -> str:
-    return "; ".join(f"{esc(s.citation)} ({s.kind})" for s in f.rule.sources)
+    return "; ".join(f"{esc(s.citation)} ({s.kind})" for s in f.sources)
 
 
 def waiver(f: Finding) -> str:
