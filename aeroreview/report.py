@@ -105,8 +105,9 @@ def as_text(data: dict, color: bool) -> str:
             console.print(f"  [bold red]fails the gate:[/] {', '.join(sheet['failing'])}")
         console.print()
     total_failing = sum(len(s["failing"]) for s in data["sheets"])
+    note = f"; recoverable totals: {ADDITIVITY_NOTE}" if data["sheets"] else ""
     console.print(f"{len(data['sheets'])} revision(s) reviewed, {total_failing} finding(s) fail the gate, "
-                  f"{len(data['errors'])} input error(s); recoverable totals: {ADDITIVITY_NOTE}")
+                  f"{len(data['errors'])} input error(s){note}")
     return buffer.getvalue()
 
 

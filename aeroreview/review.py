@@ -22,11 +22,11 @@ from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivities
 from aeroreview.problems import Problem
-from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict, all_rules
+from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict
 from aeroreview.rules.data import CLASS_CD
 from aeroreview.rules.stability import axle_figures
 from aeroreview.settings import Settings, status_rank
-from aeroreview.sheet import Fleet, Sheet, suggest
+from aeroreview.sheet import Sheet
 from aeroreview.vehicle import measured_cd, vehicle_from_sheet
 
 POINTS = {"pass": 1.0, "advisory": 0.8, "warning": 0.4, "failure": 0.0}  # score weights (our convention)
@@ -216,18 +216,6 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     recoverable = (round(sum(c[0] for c in costed), 1), round(sum(c[1] for c in costed), 1))
     return Review(sheet, list(findings.values()), zones, 100 * points / assessed if assessed else None,
                   assessed / len(findings) if findings else 0.0, recoverable, numbers, assumptions, notices)
-
-
-def waiver_problems(fleet: Fleet) -> list[Problem]:
-    """Waivers naming a rule that does not exist are input errors."""
-    rules = all_rules()
-    problems = []
-    for sheet in fleet.sheets:
-        for waiver in sheet.waivers:
-            if waiver.rule not in rules:
-                problems.append(Problem(sheet.path, waiver.line, 1, f"waiver for unknown rule '{waiver.rule}'",
-                                        suggest(waiver.rule, rules)))
-    return problems
 
 
 def failing(review: Review, fail_on: str) -> list[Finding]:
