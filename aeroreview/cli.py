@@ -17,7 +17,7 @@ from pathlib import Path
 from aeroreview import __version__, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError
-from aeroreview.rules import RULES_HINT, ZONES, all_rules
+from aeroreview.rules import REGIONS, RULES_HINT, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
 from aeroreview.sheet import load_fleet, sheet_files, suggest
 
@@ -95,7 +95,7 @@ def _cmd_rules(args) -> int:
 
 
 def _rule_json(rule) -> dict:
-    return {"id": rule.id, "zone": rule.zone, "title": rule.title, "severity": rule.severity,
+    return {"id": rule.id, "zone": rule.zone, "region": rule.region, "title": rule.title, "severity": rule.severity,
             "needs": list(rule.needs), "applies_to": list(rule.applies_to) or "all classes",
             "thresholds": [{"name": t.name, "default": t.default, "unit": t.unit, "description": t.description,
                             "source": t.source.as_dict()} for t in rule.thresholds],
@@ -147,7 +147,8 @@ def _cmd_explain(args) -> int:
         raise UsageError(f"unknown rule '{args.rule_id}'; {suggest(args.rule_id, rules, RULES_HINT)}")
     print(f"{rule.id}: {rule.title}\nzone: {ZONES[rule.zone]}; default severity: {rule.severity}; "
           f"needs: {', '.join(rule.needs) or 'results only'}"
-          + (f"; applies to: {', '.join(rule.applies_to)}" if rule.applies_to else ""))
+          + (f"; applies to: {', '.join(rule.applies_to)}" if rule.applies_to else "")
+          + (f"; acts on: {REGIONS[rule.region]}" if rule.region else ""))
     for heading, body in rule.doc.items():
         print(f"\n{heading}:\n" + textwrap.fill(body, 92, initial_indent="  ", subsequent_indent="  "))
     if rule.thresholds:

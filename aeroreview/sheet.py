@@ -157,10 +157,16 @@ class Sheet:
 def suggest(word: str, options, elsewhere: str = "see `aeroreview schema` for the valid keys") -> str:
     """A did-you-mean hint for a mistyped word; else the options when they are few, else where to look."""
     options = [str(o) for o in options]
-    close = difflib.get_close_matches(word, options, n=1, cutoff=0.6)
+    close = close_match(word, options)
     if close:
-        return f"did you mean '{close[0]}'?"
+        return f"did you mean '{close}'?"
     return f"choose one of {', '.join(options)}" if 0 < len(options) <= 8 else elsewhere
+
+
+def close_match(word: str, options) -> str | None:
+    """The option closest to a mistyped word, if one is close enough to be what was meant."""
+    close = difflib.get_close_matches(word, [str(o) for o in options], n=1, cutoff=0.6)
+    return close[0] if close else None
 
 
 class _Checker:
@@ -566,20 +572,31 @@ def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
     return files, problems
 
 
-def _sibling_revisions(folder: Path, loaded: list[Path]) -> dict[tuple[str, str], None]:
-    """(id, revision) of the sheets beside a sheet that were not loaded (a single file was checked)."""
+def _sibling_revisions(folders, loaded: set[Path]) -> dict[tuple[str, str], None]:
+    """(id, revision) of the sheets in ``folders`` that were not loaded (a single file was checked).
+
+    ``loaded`` holds the resolved paths of the loaded files; each folder is listed once.
+    """
     found = {}
-    done = {p.resolve() for p in loaded}
-    for path in sorted(folder.glob("*.y*ml")):
-        if path.resolve() in done:
-            continue
-        try:
-            data = yamldoc.load(path).data
-        except InputError:
-            continue
-        if isinstance(data, dict) and isinstance(data.get("id"), str) and isinstance(data.get("revision"), str):
-            found[(data["id"], data["revision"])] = None
+    for folder in sorted(set(folders)):
+        for path in sorted(folder.glob("*.y*ml")):
+            if path.resolve() in loaded:
+                continue
+            try:
+                data = yamldoc.load(path).data
+            except InputError:
+                continue
+            if isinstance(data, dict) and isinstance(data.get("id"), str) and isinstance(data.get("revision"), str):
+                found[(data["id"], data["revision"])] = None
     return found
+
+
+def _parent_hint(sheet: Sheet, known: list[str]) -> str:
+    """The revisions a missing parent could have meant (a revision is not its own parent)."""
+    if known == [sheet.revision]:
+        return f"no other revision of {sheet.vehicle_id} was found; add the parent's sheet or remove `parent:`"
+    close = close_match(sheet.parent, [r for r in known if r != sheet.revision])
+    return f"known revisions: {', '.join(known)}" + (f"; did you mean '{close}'?" if close else "")
 
 
 def load_fleet(paths) -> Fleet:
@@ -587,7 +604,8 @@ def load_fleet(paths) -> Fleet:
 
     Fleet-level problems: two sheets with the same (vehicle id, revision), and a parent
     revision that no sheet of that vehicle provides (among the loaded sheets, or beside
-    the sheet in its folder when a single file is checked).
+    the sheet in its folder when a single file is checked). Linear in the sheets: the
+    loaded files are resolved once and each orphan's folder is listed once.
     """
     files, problems = sheet_files(paths)
     sheets: list[Sheet] = []
@@ -602,7 +620,7 @@ def load_fleet(paths) -> Fleet:
         checked.append(sheet)
         if not errors:
             sheets.append(sheet)
-    seen: dict[tuple[str, str], Sheet] = {}
+    seen: dict[tuple[str, str], Sheet | None] = {}
     checked = [s for s in checked if s.vehicle_id and s.revision]
     for sheet in checked:
         key = (sheet.vehicle_id, sheet.revision)
@@ -611,13 +629,20 @@ def load_fleet(paths) -> Fleet:
                                     f"it is also defined in {seen[key].path}; give each revision its own name"))
         else:
             seen[key] = sheet
-    for sheet in checked:
-        if sheet.parent and (sheet.vehicle_id, sheet.parent) not in seen:
-            seen.update(_sibling_revisions(Path(sheet.path).parent, files))
-        if sheet.parent and (sheet.vehicle_id, sheet.parent) not in seen:
-            known = sorted(r for v, r in seen if v == sheet.vehicle_id and r != sheet.revision)
-            problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,
-                                    f"parent revision '{sheet.parent}' of {sheet.vehicle_id} does not exist",
-                                    suggest(sheet.parent, known, f"no other revision of {sheet.vehicle_id} was found; "
-                                            "add the parent's sheet or remove `parent:`")))
+    orphans = [s for s in checked if s.parent and (s.vehicle_id, s.parent) not in seen]
+    if orphans:
+        loaded = {p.resolve() for p in files}
+        seen.update(_sibling_revisions((Path(s.path).parent for s in orphans), loaded))
+    revisions: dict[str, list[str]] = {}
+    for vehicle, revision in seen:
+        revisions.setdefault(vehicle, []).append(revision)
+    hints: dict[tuple[str, str], str] = {}  # one hint per (vehicle, missing parent)
+    for sheet in orphans:
+        key = (sheet.vehicle_id, sheet.parent)
+        if key in seen:
+            continue
+        if key not in hints:
+            hints[key] = _parent_hint(sheet, sorted(revisions.get(sheet.vehicle_id, ())))
+        problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,
+                                f"parent revision '{sheet.parent}' of {sheet.vehicle_id} does not exist", hints[key]))
     return Fleet(sheets, problems)

@@ -198,7 +198,7 @@ def spoiler(sheet, ctx):
     return passed("the rear kick-up height is in the useful range", measured=measured, limit=limits)
 
 
-@rule("rear.roof-rails", "Roof rails", "warning",
+@rule("rear.roof-rails", "Roof rails", "warning", region="appendages",
       needs=("rear.roof_rails",),
       sources=(Source("effect: raised rails 5-15 counts; from memory (published production-car comparisons)",
                       "from memory"),))
