@@ -100,6 +100,7 @@ def _rule_json(rule) -> dict:
             "thresholds": [{"name": t.name, "default": t.default, "unit": t.unit, "description": t.description,
                             "source": t.source.as_dict()} for t in rule.thresholds],
             "sources": [s.as_dict() for s in rule.sources],
+            "sensitivity": rule.sensitivity.as_dict() if rule.sensitivity else None,
             "rationale": rule.doc.get("Why it matters", ""), "fix": rule.fix, "documentation": rule.doc}
 
 
@@ -155,6 +156,10 @@ def _cmd_explain(args) -> int:
         print("\nThresholds (override in the aeroreview section of mkdocs.yml):")
         for t in rule.thresholds:
             print(f"  {t.name} = {t.default}: {t.description} [{t.source.kind}: {t.source.citation}]")
+    if rule.sensitivity:
+        sens = rule.sensitivity
+        print(f"\nSensitivity: {sens.counts_per_unit:+g} counts per {sens.unit} of {sens.feature} "
+              f"({sens.valid[0]:g} to {sens.valid[1]:g} {sens.unit}) [{sens.source.kind}: {sens.source.citation}]")
     print("\nSources:")
     for source in rule.sources:
         print(f"  [{source.kind}] {source.citation}")

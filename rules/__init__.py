@@ -38,7 +38,7 @@ from aeroreview.units import to_si
 STATUSES = ("pass", "advisory", "warning", "failure")  # in rising order of concern
 NOT_ASSESSED = "not assessed"
 SEVERITIES = ("advisory", "warning", "failure")
-SOURCE_KINDS = ("published", "standard", "common practice", "from memory")
+SOURCE_KINDS = ("published", "standard", "common practice", "from memory", "team data")
 ZONES = REVIEW_ZONES
 DOC_SECTIONS = ("What it checks", "Why it matters", "How to fix", "Known limits")
 
@@ -84,6 +84,27 @@ class Threshold:
 
     def parse(self, value) -> float:
         return to_si(value, self.unit)
+
+
+@dataclass(frozen=True)
+class Sensitivity:
+    """The rule's effect per unit of the feature it judges: drag counts per ``unit`` of ``feature``.
+
+    It holds inside ``valid`` (in ``unit``); the rule's fix takes the feature to its
+    threshold ``fix_to``, so a team calibration of the slope (``aeroreview calibrate``)
+    can re-cost the fix. Positive: more of the feature, more drag.
+    """
+
+    feature: str
+    counts_per_unit: float
+    unit: str
+    valid: tuple[float, float]
+    fix_to: str
+    source: Source
+
+    def as_dict(self) -> dict:
+        return {"feature": self.feature, "counts_per_unit": self.counts_per_unit, "unit": self.unit,
+                "valid": list(self.valid), "fix_to": self.fix_to, "source": self.source.as_dict()}
 
 
 @dataclass(frozen=True)
@@ -144,6 +165,7 @@ class Rule:
     applies_to: tuple[str, ...] = ()  # vehicle classes; empty means every class
     figure: str | None = None  # name of a reference figure the site can draw
     region: str | None = None  # the flow region its fix acts on (REGIONS); None: no drag counts
+    sensitivity: Sensitivity | None = None
 
     @property
     def doc(self) -> dict[str, str]:
@@ -184,7 +206,7 @@ REGISTRY: dict[str, Rule] = {}
 
 
 def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=(), applies_to=(), figure=None,
-         region: str | None = ""):
+         region: str | None = "", sensitivity: Sensitivity | None = None):
     """Register the decorated function as a rule (see the module docstring).
 
     ``region`` defaults to the zone's flow region; give it where the fix acts on another flow.
@@ -201,8 +223,10 @@ def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=()
             raise ValueError(f"{id}: region must be one of {tuple(REGIONS)}")
         if id in REGISTRY:
             raise ValueError(f"rule {id} registered twice")
+        if sensitivity and (sensitivity.feature not in needs or sensitivity.fix_to not in {t.name for t in thresholds}):
+            raise ValueError(f"{id}: a sensitivity needs one of the rule's features and thresholds")
         REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), tuple(sources), function,
-                            tuple(applies_to), figure, flow)
+                            tuple(applies_to), figure, flow, sensitivity)
         return function
 
     return register
