@@ -30,7 +30,7 @@ from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
 from aeroreview.paths import PathProblem, contained_file
 from aeroreview.problems import InputError, Problem, UsageError
-from aeroreview.rules import SEVERITIES, STATUSES, Context, Rule, all_rules
+from aeroreview.rules import RULES_HINT, SEVERITIES, STATUSES, Context, Rule, all_rules
 from aeroreview.sheet import suggest
 from aeroreview.units import UnitProblem, to_si
 
@@ -208,7 +208,7 @@ def _overrides(data, error) -> dict[str, RuleOverride]:
     for rule_id, raw in data.items():
         where = ("rules", rule_id)
         if rule_id not in rules:
-            error(where, f"unknown rule '{rule_id}'", suggest(str(rule_id), rules), key=True)
+            error(where, f"unknown rule '{rule_id}'", suggest(str(rule_id), rules, RULES_HINT), key=True)
             continue
         if not isinstance(raw, dict):
             error(where, f"settings of {rule_id} must be a mapping", "severity, disabled or thresholds")
