@@ -30,9 +30,10 @@ def calibration_page(out: Output, cal: Calibration) -> str:
     data = page_data(cal, out.settings.root)
     used = {rule.sensitivity.feature: rule.id for rule in all_rules().values() if rule.sensitivity}
     lines = [f"# Calibration {esc(cal.file)}", ""]
-    lines += [f"> {esc(comment)}" for comment in data["comments"]] + ([""] if data["comments"] else [])
-    lines += ["| Provenance | |", "|---|---|", f"| study | `{esc(cal.study_file)}` |",
-              f"| sha256 | `{esc(cal.study_sha256)}` |", f"| rows used | {cal.rows} ({cal.dropped_rows} dropped for "
+    if data["comments"]:
+        lines += ["\n>\n".join(f"> {esc(comment)}" for comment in data["comments"]), ""]
+    lines += ["| Provenance | |", "|---|---|", f"| study | {esc(cal.study_file)} |",
+              f"| sha256 | {esc(cal.study_sha256)} |", f"| rows used | {cal.rows} ({cal.dropped_rows} dropped for "
               "missing values) |", f"| response | {esc(cal.response)} (in drag counts) |",
               "| model | linear least squares (statsmodels OLS), 95 % intervals |",
               f"| fitted | {esc(cal.date)} |", ""]
