@@ -38,6 +38,14 @@ def finding_json(finding: Finding) -> dict:
     }
 
 
+def finding_line(sheet, finding: Finding) -> int:
+    """The sheet line a finding points at: its first needed feature the sheet gives, else the results."""
+    for key in finding.rule.needs:
+        if key in sheet.line_of:
+            return sheet.line_of[key]
+    return sheet.line_of.get("results", sheet.line_of.get("features", 1))
+
+
 def review_json(review: Review, fail_on: str, counted: set | None = None) -> dict:
     sheet = review.sheet
     gate = failing(review, fail_on)
@@ -55,7 +63,7 @@ def review_json(review: Review, fail_on: str, counted: set | None = None) -> dic
         "ranked_fixes": [f.rule.id for f in review.ranked_fixes],
         "key_numbers": review.key_numbers, "assumptions": review.assumptions,
         "failing": [f.rule.id for f in gate],
-        "findings": [finding_json(f) for f in review.findings],
+        "findings": [{**finding_json(f), "line": finding_line(sheet, f)} for f in review.findings],
         "notices": [n.as_dict() for n in review.notices],
     }
 

@@ -3,10 +3,11 @@
 from __future__ import annotations
 
 import json
+from pathlib import Path
 
 import numpy as np
 import pytest
-from conftest import MINIMAL
+from conftest import MINIMAL, ROOT
 
 MINIMAL_WITH_WAIVER = MINIMAL + "waivers:\n  - {{rule: {rule}, reason: accepted for the demo}}\n"
 
@@ -71,3 +72,76 @@ def test_a_broken_sheet_still_counts_for_the_fleet_checks(cli, write_sheet):
     write_sheet(MINIMAL + "  wheels.rim_openness: 2\n", "b.yaml")
     run = cli("check", first.parent)
     assert "test-car@r1 is defined twice" in run.err and "wheels.rim_openness" in run.err
+
+
+def test_calc_drag_gives_lift_as_a_share_of_axle_load(cli):
+    """Hand-worked: ISA sea level (1.225 kg/m^3, ISO 2533), 100 km/h: q = 0.5 x 1.225 x 27.778^2 = 472.61 Pa.
+
+    Front lift 0.05 x 2.0 m^2 x q = 47.26 N on 1800 kg x 9.80665 m/s^2 x 0.55 = 9708.6 N: 0.487 %;
+    rear lift 0.08 x 2.0 x q = 75.62 N on 1800 x 9.80665 x 0.45 = 7943.4 N: 0.952 %.
+    """
+    run = cli("calc", "drag", "--cd", "0.30", "--area", "2.0", "--speed", "100", "--cl-front", "0.05",
+              "--cl-rear", "0.08", "--mass", "1800", "--front-share", "55 %", "--json")
+    assert run.code == 0, run.err
+    values = json.loads(run.out)
+    assert values["lift_front_share_of_axle_load"] == pytest.approx(0.004868, rel=2e-3)
+    assert values["lift_rear_share_of_axle_load"] == pytest.approx(0.009520, rel=2e-3)
+    text = cli("calc", "drag", "--cd", "0.30", "--area", "2.0", "--speed", "100", "--cl-front", "0.05",
+               "--cl-rear", "0.08", "--mass", "1800", "--front-share", "0.55").out
+    assert "+0.49 % of the static axle load" in text and "+0.95 % of the static axle load" in text
+    half = cli("calc", "drag", "--cd", "0.30", "--area", "2.0", "--speed", "100", "--mass", "1800")
+    assert half.code == 2 and "--front-share" in half.err
+
+
+def _filled_sheet(cli, folder, vehicle="coupe-a"):
+    from test_schema_template_fleet import fill_placeholders
+
+    path = folder / "vehicles" / vehicle / "r1.yaml"
+    assert cli("new", vehicle, "--class", "sedan", "-o", path).code == 0
+    path.write_text(fill_placeholders(path.read_text(encoding="utf-8")), encoding="utf-8")
+    return path
+
+
+def test_init_starts_a_knowledge_base_without_the_demo(cli, tmp_path, monkeypatch):
+    import os
+    import subprocess
+    import sys
+
+    import yaml
+
+    folder = tmp_path / "kb"
+    run = cli("init", folder)
+    assert run.code == 0, run.err
+    assert (folder / "vehicles").is_dir() and not any((folder / "vehicles").iterdir())
+    config = yaml.safe_load((folder / "mkdocs.yml").read_text(encoding="utf-8"))
+    section = next(p["aeroreview"] for p in config["plugins"] if isinstance(p, dict) and "aeroreview" in p)
+    assert section["sheets"] == "vehicles" and section["fail_on"] == "failure"
+    demo = yaml.safe_load((ROOT / "mkdocs.yml").read_text(encoding="utf-8"))
+    assert config["nav"] == demo["nav"] and config["markdown_extensions"] == demo["markdown_extensions"]
+    pages = sorted(p.relative_to(folder / "site_src").as_posix() for p in (folder / "site_src").rglob("*.md"))
+    assert pages == sorted(p.relative_to(ROOT / "site_src").as_posix() for p in (ROOT / "site_src").rglob("*.md"))
+    for page in (folder / "site_src").rglob("*"):
+        if page.is_file():
+            text = page.read_text(encoding="utf-8")
+            assert not any(name in text for name in ("Maroska", "Tessel", "Quillon", "Dravik", "aeroreview:demo")), page
+    assert "Cautions" in (folder / "site_src" / "index.md").read_text(encoding="utf-8")
+    # The CI example runs the gate: clean with a filled sheet, exit 2 with a placeholder left.
+    env = {**os.environ, "PATH": f"{Path(sys.executable).parent}{os.pathsep}{os.environ['PATH']}"}
+    sheet = _filled_sheet(cli, folder)
+    gate = subprocess.run(["sh", str(folder / "ci" / "gate.sh")], env=env, capture_output=True, text=True)
+    assert gate.returncode == 0, gate.stdout + gate.stderr
+    assert "1 revision(s) reviewed" in gate.stdout and (folder / "review.sarif").is_file()
+    sheet.write_text(sheet.read_text(encoding="utf-8").replace("name: Demo Car", "name: <display name>"), encoding="utf-8")
+    gate = subprocess.run(["sh", str(folder / "ci" / "gate.sh")], env=env, capture_output=True, text=True)
+    assert gate.returncode == 2 and "template placeholder" in gate.stderr
+
+
+def test_init_refuses_a_folder_that_is_not_empty(cli, tmp_path):
+    folder = tmp_path / "team"
+    folder.mkdir()
+    (folder / "notes.txt").write_text("ours", encoding="utf-8")
+    run = cli("init", folder)
+    assert run.code == 2 and "not empty" in run.err
+    assert sorted(p.name for p in folder.iterdir()) == ["notes.txt"]
+    assert (folder / "notes.txt").read_text(encoding="utf-8") == "ours"
+    assert cli("init", folder / "notes.txt").code == 2
