@@ -14,7 +14,7 @@ import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, calc_cli, report, review, schema, template
+from aeroreview import __version__, baseline, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError, clean
 from aeroreview.rules import REGIONS, RULES_HINT, ZONES, all_rules
@@ -64,9 +64,11 @@ def _cmd_check(args) -> int:
     problems = fleet.problems
     bad_files = {p.file for p in problems}
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
-    counted = report.new_or_worse(reviews, report.load_baseline(args.baseline)) if args.baseline else None
+    before = baseline.load(args.baseline) if args.baseline else None
     notices = fleet.warnings + [n for r in reviews for n in r.notices]
-    data = report.as_json(reviews, problems + notices, fail_on, counted)
+    data = report.as_json(reviews, problems + notices, fail_on)
+    if before is not None:
+        baseline.apply(data, before)
     if args.format == "json":
         text = json.dumps(data, indent=2, default=str) + "\n"
     elif args.format == "junit":
@@ -207,7 +209,8 @@ def build_parser() -> argparse.ArgumentParser:
                        help="report format: text, json, junit (XML) or sarif (SARIF 2.1.0, for code review)")
     check.add_argument("-o", "--output", help="write the report to this file instead of stdout")
     check.add_argument("--fail-on", choices=FAIL_LEVELS, help="lowest status that fails (default from the settings)")
-    check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this report")
+    check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this JSON report "
+                       "(worse: a higher status, or a grown estimate or excess beyond the limit)")
     check.add_argument("--config", help="settings file (default ./mkdocs.yml)")
     check.set_defaults(run=_cmd_check)
 

@@ -145,3 +145,50 @@ def test_init_refuses_a_folder_that_is_not_empty(cli, tmp_path):
     assert sorted(p.name for p in folder.iterdir()) == ["notes.txt"]
     assert (folder / "notes.txt").read_text(encoding="utf-8") == "ours"
     assert cli("init", folder / "notes.txt").code == 2
+
+
+def _baseline_fleet(cli, tmp_path, replacements):
+    """A copy of the demo fleet, its JSON report as the baseline, then the Tessel r1 sheet edited."""
+    import shutil
+
+    from conftest import VEHICLES
+
+    fleet = tmp_path / "fleet"
+    shutil.copytree(VEHICLES, fleet)
+    base = tmp_path / "base.json"
+    cli("check", fleet, "--format", "json", "-o", base, "--fail-on", "warning")
+    sheet = fleet / "tessel" / "r1.yaml"
+    text = sheet.read_text(encoding="utf-8")
+    for old, new in replacements:
+        assert old in text
+        text = text.replace(old, new)
+    sheet.write_text(text, encoding="utf-8")
+    return fleet, base
+
+
+def test_baseline_flags_a_finding_made_worse_within_its_status(cli, tmp_path):
+    """The issue's case: diffuser 15 to 17 deg (excess over the limit grows by 2 deg, two thirds) and rims
+    0.55 to 0.62 open (estimate grows by several counts) keep their statuses but are worse."""
+    fleet, base = _baseline_fleet(cli, tmp_path, [("underbody.diffuser_angle: 15 deg", "underbody.diffuser_angle: 17 deg"),
+                                                  ("wheels.rim_openness: 0.55", "wheels.rim_openness: 0.62")])
+    run = cli("check", fleet, "--baseline", base, "--fail-on", "warning", "--format", "json")
+    assert run.code == 1
+    sheet = next(s for s in json.loads(run.out)["sheets"] if (s["vehicle"], s["revision"]) == ("tessel", "r1"))
+    worse = {w["rule"]: w["why"] for w in sheet["baseline"]["worse"]}
+    assert set(sheet["failing"]) == set(worse) >= {"underbody.diffuser-angle", "wheels.rim-openness"}
+    assert "beyond the limit by 3 -> 5 deg" in worse["underbody.diffuser-angle"]
+    assert "counts" in worse["wheels.rim-openness"]
+    suppressed = {s["rule"] for s in sheet["baseline"]["suppressed"]}
+    assert "rear.backlight-angle" in suppressed and not suppressed & set(worse)
+    text = cli("check", fleet, "--baseline", base, "--fail-on", "warning").out
+    assert "worse than the baseline: underbody.diffuser-angle" in text
+    assert "not counted, no worse than the baseline:" in text and "rear.backlight-angle (failure)" in text
+
+
+def test_baseline_ignores_a_change_inside_the_margins(cli, tmp_path):
+    """Rims 0.55 to 0.555 open: the estimate grows by under 1 count, the excess by under a tenth."""
+    fleet, base = _baseline_fleet(cli, tmp_path, [("wheels.rim_openness: 0.55", "wheels.rim_openness: 0.555")])
+    run = cli("check", fleet, "--baseline", base, "--fail-on", "warning", "--format", "json")
+    sheet = next(s for s in json.loads(run.out)["sheets"] if (s["vehicle"], s["revision"]) == ("tessel", "r1"))
+    assert run.code == 0, sheet["baseline"]
+    assert "wheels.rim-openness" in {s["rule"] for s in sheet["baseline"]["suppressed"]}
