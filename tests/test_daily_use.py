@@ -192,3 +192,25 @@ def test_baseline_ignores_a_change_inside_the_margins(cli, tmp_path):
     sheet = next(s for s in json.loads(run.out)["sheets"] if (s["vehicle"], s["revision"]) == ("tessel", "r1"))
     assert run.code == 0, sheet["baseline"]
     assert "wheels.rim-openness" in {s["rule"] for s in sheet["baseline"]["suppressed"]}
+
+
+def test_readme_usage_lines_run_as_written():
+    """The Usage block activates the venv before its bare `aeroreview` lines, and they then run."""
+    import os
+    import re
+    import subprocess
+
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    block = re.search(r"## Usage\n.*?```sh\n(.*?)```", readme, re.S).group(1).splitlines()
+    first_bare = next(i for i, line in enumerate(block) if line.startswith("aeroreview "))
+    assert ". .venv/bin/activate" in block[:first_bare], block[:first_bare + 1]
+    safe = [line.split("#")[0].strip() for line in block
+            if line.startswith(("aeroreview --version", "aeroreview explain", "aeroreview rules"))]
+    assert len(safe) == 3
+    venv = ROOT / ".venv" / "bin"
+    path = os.pathsep.join(p for p in os.environ["PATH"].split(os.pathsep) if Path(p) != venv)
+    script = " && ".join([block[0], *safe])
+    run = subprocess.run(["sh", "-c", script], cwd=ROOT, capture_output=True, text=True,
+                         env={**os.environ, "PATH": path})
+    assert run.returncode == 0, run.stderr
+    assert "rear.backlight-angle" in run.stdout and "aeroreview" in run.stdout
