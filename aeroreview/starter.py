@@ -53,6 +53,7 @@ nav:
   - Home: index.md
   - Fleet: fleet/index.md
   - Rules: rules/index.md
+  - Calibrations: calibrations/index.md
   - Feature reference: features.md
   - Methods:
       - methods/index.md
