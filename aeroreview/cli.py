@@ -9,14 +9,15 @@ from __future__ import annotations
 
 import argparse
 import json
+import re
 import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, calc_cli, report, review, schema, template
+from aeroreview import __version__, baseline, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
-from aeroreview.problems import InputError, UsageError
-from aeroreview.rules import REGIONS, ZONES, all_rules
+from aeroreview.problems import InputError, UsageError, clean
+from aeroreview.rules import REGIONS, RULES_HINT, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
 from aeroreview.sheet import load_fleet, sheet_files, suggest
 
@@ -24,7 +25,16 @@ EXIT_CLEAN, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 
 
 class _Parser(argparse.ArgumentParser):
-    """argparse that raises instead of exiting, so every usage error takes one path."""
+    """argparse that raises instead of exiting, so every usage error takes one path.
+
+    A value that starts with a minus and a digit (``--yaw -10:0.35,0:0.30``) is a value,
+    not an option: no option of ours looks like that, and argparse's own test knows only
+    plain negative numbers.
+    """
+
+    def __init__(self, *args, **kwargs):
+        super().__init__(*args, **kwargs)
+        self._negative_number_matcher = re.compile(r"^-\.?\d")
 
     def error(self, message):
         raise UsageError(f"{self.prog}: {message}")
@@ -51,16 +61,22 @@ def _cmd_check(args) -> int:
     settings = load_settings(args.config)
     fail_on = args.fail_on or settings.fail_on
     fleet = load_fleet(args.paths or [settings.sheets_path])
-    problems = fleet.problems + review.waiver_problems(fleet)
+    problems = fleet.problems
     bad_files = {p.file for p in problems}
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
-    counted = report.new_or_worse(reviews, report.load_baseline(args.baseline)) if args.baseline else None
+    before = baseline.load(args.baseline) if args.baseline else None
     notices = fleet.warnings + [n for r in reviews for n in r.notices]
-    data = report.as_json(reviews, problems + notices, fail_on, counted)
+    data = report.as_json(reviews, problems + notices, fail_on)
+    if before is not None:
+        baseline.apply(data, before)
     if args.format == "json":
         text = json.dumps(data, indent=2, default=str) + "\n"
     elif args.format == "junit":
         text = report.as_junit(data, fail_on)
+    elif args.format == "sarif":
+        from aeroreview.sarif import as_sarif
+
+        text = as_sarif(data)
     else:
         for warning in notices:
             print(warning, file=sys.stderr)
@@ -86,10 +102,12 @@ def _cmd_rules(args) -> int:
 
 def _rule_json(rule) -> dict:
     return {"id": rule.id, "zone": rule.zone, "region": rule.region, "title": rule.title, "severity": rule.severity,
-            "needs": list(rule.needs), "applies_to": list(rule.applies_to) or "all classes",
+            "needs": list(rule.needs), "optional": list(rule.optional), "reads": list(rule.reads),
+            "applies_to": list(rule.applies_to) or "all classes",
             "thresholds": [{"name": t.name, "default": t.default, "unit": t.unit, "description": t.description,
                             "source": t.source.as_dict()} for t in rule.thresholds],
             "sources": [s.as_dict() for s in rule.sources],
+            "sensitivity": rule.sensitivity.as_dict() if rule.sensitivity else None,
             "rationale": rule.doc.get("Why it matters", ""), "fix": rule.fix, "documentation": rule.doc}
 
 
@@ -134,7 +152,7 @@ def _cmd_explain(args) -> int:
     rules = all_rules()
     rule = rules.get(args.rule_id)
     if rule is None:
-        raise UsageError(f"unknown rule '{args.rule_id}'; {suggest(args.rule_id, rules)}")
+        raise UsageError(f"unknown rule '{args.rule_id}'; {suggest(args.rule_id, rules, RULES_HINT)}")
     print(f"{rule.id}: {rule.title}\nzone: {ZONES[rule.zone]}; default severity: {rule.severity}; "
           f"needs: {', '.join(rule.needs) or 'results only'}"
           + (f"; applies to: {', '.join(rule.applies_to)}" if rule.applies_to else "")
@@ -145,6 +163,10 @@ def _cmd_explain(args) -> int:
         print("\nThresholds (override in the aeroreview section of mkdocs.yml):")
         for t in rule.thresholds:
             print(f"  {t.name} = {t.default}: {t.description} [{t.source.kind}: {t.source.citation}]")
+    if rule.sensitivity:
+        sens = rule.sensitivity
+        print(f"\nSensitivity: {sens.counts_per_unit:+g} counts per {sens.unit} of {sens.feature} "
+              f"({sens.valid[0]:g} to {sens.valid[1]:g} {sens.unit}) [{sens.source.kind}: {sens.source.citation}]")
     print("\nSources:")
     for source in rule.sources:
         print(f"  [{source.kind}] {source.citation}")
@@ -158,8 +180,20 @@ def _cmd_schema(args) -> int:
 
 def _cmd_new(args) -> int:
     path = Path(args.output or f"vehicles/{args.vehicle_id}/{args.revision}.yaml")
-    template.write(path, args.vehicle_id, args.vehicle_class, args.revision)
-    print(f"wrote {path}; fill it in, then run: aeroreview check {path}")
+    placeholders = template.write(path, args.vehicle_id, args.vehicle_class, args.revision)
+    print(f"wrote {path} with {placeholders} placeholders (<e.g. ...>) to replace with your vehicle's values;\n"
+          f"`aeroreview check {path}` refuses the sheet, as an input error, until every one is filled")
+    return EXIT_CLEAN
+
+
+def _cmd_init(args) -> int:
+    from aeroreview import starter
+
+    folder = Path(args.folder)
+    starter.create(folder)
+    print(f"wrote a knowledge base in {folder}: mkdocs.yml (settings), site_src/ (pages), vehicles/ (empty), "
+          f"ci/gate.sh (the CI gate)\nnext: cd {folder} && aeroreview new VEHICLE_ID --class CLASS, "
+          "fill the sheet, then aeroreview check")
     return EXIT_CLEAN
 
 
@@ -171,10 +205,12 @@ def build_parser() -> argparse.ArgumentParser:
 
     check = sub.add_parser("check", help="validate and review sheets (files or folders, searched recursively)")
     check.add_argument("paths", nargs="*", metavar="PATH", help="sheets or folders (default: the configured sheets)")
-    check.add_argument("--format", choices=("text", "json", "junit"), default="text")
+    check.add_argument("--format", choices=("text", "json", "junit", "sarif"), default="text",
+                       help="report format: text, json, junit (XML) or sarif (SARIF 2.1.0, for code review)")
     check.add_argument("-o", "--output", help="write the report to this file instead of stdout")
     check.add_argument("--fail-on", choices=FAIL_LEVELS, help="lowest status that fails (default from the settings)")
-    check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this report")
+    check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this JSON report "
+                       "(worse: a higher status, or a grown estimate or excess beyond the limit)")
     check.add_argument("--config", help="settings file (default ./mkdocs.yml)")
     check.set_defaults(run=_cmd_check)
 
@@ -195,6 +231,10 @@ def build_parser() -> argparse.ArgumentParser:
     new.add_argument("--revision", default="r1")
     new.add_argument("-o", "--output", help="file to write (default vehicles/VEHICLE_ID/REVISION.yaml)")
     new.set_defaults(run=_cmd_new)
+
+    init = sub.add_parser("init", help="start a knowledge base of your own in a new or empty folder")
+    init.add_argument("folder", metavar="DIR")
+    init.set_defaults(run=_cmd_init)
 
     measure_cmd = sub.add_parser("measure", help="measure sheet features from a surface (STL, OBJ, PLY) or a CSV profile")
     measure_cmd.add_argument("surface", metavar="SURFACE")
@@ -226,7 +266,7 @@ def main(argv: list[str] | None = None) -> int:
         args = build_parser().parse_args(argv)
         return args.run(args)
     except UsageError as error:
-        print(f"error: {error}", file=sys.stderr)
+        print(f"error: {clean(error)}", file=sys.stderr)
         if debug:
             raise
         return EXIT_INPUT
@@ -242,6 +282,6 @@ def main(argv: list[str] | None = None) -> int:
     except Exception as error:  # noqa: BLE001 - last line of defence: no traceback for users
         if debug:
             raise
-        print(f"internal error: {type(error).__name__}: {error}\n"
+        print(f"internal error: {type(error).__name__}: {clean(error)}\n"
               "this is a bug in aeroreview; run again with --debug and report the traceback", file=sys.stderr)
         return EXIT_INPUT
