@@ -39,7 +39,10 @@ from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
 SLUG = re.compile(r"^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$")
 RULE_ID = re.compile(r"^[a-z]+\.[a-z0-9-]+$")
-IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".svg", ".webp", ".gif")
+IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".webp", ".gif")  # raster only: an SVG can carry script
+# The first bytes of each raster format (its specification's signature), so a script-bearing
+# SVG or HTML file renamed .png is refused too.
+IMAGE_SIGNATURES = (b"\x89PNG\r\n\x1a\n", b"\xff\xd8\xff", b"GIF87a", b"GIF89a", b"RIFF")
 RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
 MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
 
@@ -108,6 +111,7 @@ class Attachment:
     file: str  # relative to the sheet's folder, checked to stay inside it
     zone: str
     caption: str
+    line: int = 1  # where the sheet names the file
 
 
 @dataclass(frozen=True)
@@ -417,7 +421,7 @@ class _Checker:
             if zone and zone not in catalogue.ALL_ZONES:
                 self.error(path + ("zone",), f"unknown zone '{zone}'", suggest(zone, catalogue.ALL_ZONES))
             if file and self.safe_file(file, path + ("file",)):
-                out.append(Attachment(file, zone, caption))
+                out.append(Attachment(file, zone, caption, self.doc.where(path + ("file",))[0]))
         return out
 
     def geometry(self, data) -> Geometry | None:
@@ -451,10 +455,17 @@ class _Checker:
         resolved) and exist; :func:`aeroreview.paths.contained_file` decides."""
         kind = "an image" if what == "attachment" else "a surface file"
         try:
-            contained_file(self.folder, file, suffixes, what, kind)
+            real = contained_file(self.folder, file, suffixes, what, kind)
         except PathProblem as problem:
             self.error(path, str(problem), problem.hint)
             return False
+        if what == "attachment":
+            with real.open("rb") as stream:
+                head = stream.read(12)
+            if not head.startswith(IMAGE_SIGNATURES) or head.startswith(b"RIFF") and head[8:12] != b"WEBP":
+                self.error(path, f"attachment '{file}' is not a PNG, JPEG, GIF or WebP image inside",
+                           "export it as a raster image; SVG and other documents are not published")
+                return False
         return True
 
 
@@ -542,6 +553,20 @@ def load_sheet(path: Path | str, display: str | None = None) -> Sheet:
     path = Path(path)
     doc = yamldoc.load(path, display or str(path))
     return from_document(doc, path.parent)
+
+
+def attachment_problems(sheets, limit: int) -> list[Problem]:
+    """Attachments larger than ``limit`` bytes (the site copies each one into every build)."""
+    problems = []
+    for sheet in sheets:
+        for attachment in sheet.attachments:
+            real = contained_file(Path(sheet.path).parent, attachment.file, IMAGE_SUFFIXES, "attachment")
+            size = real.stat().st_size
+            if size > limit:
+                problems.append(Problem(sheet.path, attachment.line, 1, f"attachment '{attachment.file}' is "
+                                        f"{size:,} bytes, over the limit of {limit:,}",
+                                        "make it smaller, or raise max_attachment_mb in the settings"))
+    return problems
 
 
 @dataclass
