@@ -44,7 +44,7 @@ def test_a_document_renamed_as_an_image_is_refused(tmp_path):
 def test_sheet_path_with_a_hyphen_shows_as_typed(tmp_path):
     kb = tiny_kb(tmp_path / "kb")
     assert site_build(kb, tmp_path / "out").code == 0
-    html = (tmp_path / "out/fleet/test-car/r1/index.html").read_text(encoding="utf-8")
+    html = (tmp_path / "out/fleet/test-car/r1.html").read_text(encoding="utf-8")
     assert "<code>vehicles/test-car/r1.yaml</code>" in unescape(html)
     assert "&amp;#" not in html  # no entity escaped a second time anywhere on the page
 
