@@ -19,6 +19,7 @@ SLUG = r"^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$"
 RULE_ID = r"^[a-z]+\.[a-z0-9-]+$"
 MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
 FILE_NAME = r"^(?!/)(?!.*\.\.)[^\\:]+$"  # relative, no "..", no drive or backslash (safe_file checks more)
+MAX_GROUND = 1e6  # |ground| in file units: 1 km in mm, beyond any surface file (common practice)
 RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
 COEFFICIENT = (-3.0, 3.0)  # road-vehicle lift coefficients lie well inside (from memory: Hucho 1998, ch. 5)
 DRAG_COEFFICIENT = (0.05, 2.0)  # below any road body; above a flat plate normal to the flow, about 1.2
@@ -110,7 +111,7 @@ GEOMETRY = Section("geometry", (
     _text("units", 10, choices=("mm", "m")),
     _text("nose", 10, choices=("-x", "+x")),
     _text("up", 10, choices=("+z", "+y")),
-    Field("ground", "raw", raw_schema={"type": "number"}),  # in the file's units; read in sheet.py
+    Field("ground", "raw", raw_schema={"type": "number", "minimum": -MAX_GROUND, "maximum": MAX_GROUND}),  # file units
 ))
 
 FEATURE_VALUE = Section("features", (  # the mapping form of a feature value; "value" is the catalogue's

@@ -33,9 +33,9 @@ from pathlib import Path
 from aeroreview import catalogue, sections, yamldoc
 from aeroreview.catalogue import Feature
 from aeroreview.paths import PathProblem, contained_file
-from aeroreview.problems import InputError, Problem
-from aeroreview.sections import (MAX_TEXT, RESULT_KINDS, Attachment, Field, Geometry, Result, Section, Waiver,
-                                 YawPoint)
+from aeroreview.problems import InputError, Problem, echo
+from aeroreview.sections import (MAX_GROUND, MAX_TEXT, RESULT_KINDS, Attachment, Field, Geometry, Result, Section,
+                                 Waiver, YawPoint)
 from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
 __all__ = ["MAX_TEXT", "RESULT_KINDS", "Attachment", "Geometry", "Result", "Sheet", "Value", "Waiver", "YawPoint",
@@ -148,7 +148,7 @@ class _Checker:
                 return _dt.date.fromisoformat(value)
             except ValueError:
                 pass
-        self.error(path + (key,), f"'{key}' must be a date, got '{value}'", "write it as YYYY-MM-DD")
+        self.error(path + (key,), f"'{key}' must be a date, got '{echo(value)}'", "write it as YYYY-MM-DD")
         return None
 
     def mapping(self, data, path, name) -> dict:
@@ -200,11 +200,11 @@ class _Checker:
         elif item.kind == "file":
             return value  # its path rules are safe_file's
         elif item.choices and value not in item.choices:
-            self.error(where, f"'{item.name}' must be one of {', '.join(item.choices)}, got '{value}'",
+            self.error(where, f"'{item.name}' must be one of {', '.join(item.choices)}, got '{echo(value)}'",
                        suggest(value, item.choices))
             return ""
         if item.pattern and not re.search(item.pattern, value):
-            self.error(where, f"'{item.name}' must be {item.pattern_what}, got '{value}'", item.pattern_hint)
+            self.error(where, f"'{item.name}' must be {item.pattern_what}, got '{echo(value)}'", item.pattern_hint)
             return ""
         return value
 
@@ -265,12 +265,12 @@ class _Checker:
             return None
         if item.kind == "flag":
             if not isinstance(raw, bool):
-                self.error(path, f"'{item.key}' must be true or false, got '{raw}'", "write true or false")
+                self.error(path, f"'{item.key}' must be true or false, got '{echo(raw)}'", "write true or false")
                 return None
             return raw
         if item.kind == "choice":
             if not isinstance(raw, str) or raw.lower() not in item.choices:
-                self.error(path, f"'{item.key}' must be one of {', '.join(item.choices)}, got '{raw}'",
+                self.error(path, f"'{item.key}' must be one of {', '.join(item.choices)}, got '{echo(raw)}'",
                            suggest(str(raw).lower(), item.choices))
                 return None
             return raw.lower()
@@ -281,15 +281,15 @@ class _Checker:
             return None
         shown = from_si(si, item.unit)
         if item.integer and shown != int(shown):
-            self.error(path, f"'{item.key}' must be a whole number, got {raw}", "write a count such as 2")
+            self.error(path, f"'{item.key}' must be a whole number, got {echo(raw)}", "write a count such as 2")
             return None
         low, high = item.bounds
         if not low <= shown <= high:
-            self.error(path, f"'{item.key}' = {raw} is physically impossible (outside {low:g} to {high:g} {item.unit})".replace(" )", ")"),
+            self.error(path, f"'{item.key}' = {echo(raw)} is physically impossible (outside {low:g} to {high:g} {item.unit})".replace(" )", ")"),
                        "check the number and its unit")
             return None
         if item.typical and not item.typical[0] <= shown <= item.typical[1]:
-            self.warn(path, f"'{item.key}' = {raw} is outside the typical range {item.typical_text()}",
+            self.warn(path, f"'{item.key}' = {echo(raw)} is outside the typical range {item.typical_text()}",
                       f"check it; typical range: {item.typical_source}")
         return si
 
@@ -333,8 +333,10 @@ class _Checker:
         values = self.fields(sections.GEOMETRY, data, path)
         file = values["file"]
         ground = data.get("ground")
-        if ground is not None and (isinstance(ground, bool) or not isinstance(ground, (int, float))):
-            self.error(path + ("ground",), "geometry ground must be a number in the file's units", "e.g. ground: 0")
+        if ground is not None and (isinstance(ground, bool) or not isinstance(ground, (int, float))
+                                   or not abs(ground) <= MAX_GROUND):
+            self.error(path + ("ground",), f"geometry ground must be a number in the file's units, within "
+                       f"±{MAX_GROUND:g}", "e.g. ground: 0")
             ground = None
         if file and self.safe_file(file, path + ("file",), SURFACE_SUFFIXES, "surface"):
             return Geometry(file, values["units"] or None, values["nose"] or "-x", values["up"] or "+z",

@@ -113,6 +113,8 @@ def mutations():
             for label, value, expressible in field_mutations(item):
                 yield f"{section.name}.{item.name} {label}", holder, item.name, value, expressible
         yield f"{section.name} with an unknown key", holder, "bogus_key", 1, True
+    yield "geometry.ground at its bound", ("geometry",), "ground", -sections.MAX_GROUND, False
+    yield "geometry.ground beyond its bound", ("geometry",), "ground", 2 * sections.MAX_GROUND, True
     for feature in catalogue.FEATURES:
         holder = ("features",)
         if feature.kind == "quantity":
