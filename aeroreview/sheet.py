@@ -25,13 +25,13 @@ warnings on the sheet. Nothing here ever writes to the user's file.
 from __future__ import annotations
 
 import datetime as _dt
-import difflib
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from aeroreview import catalogue, sections, yamldoc
 from aeroreview.catalogue import Feature
+from aeroreview.names import close_match, suggest
 from aeroreview.paths import PathProblem, contained_file
 from aeroreview.problems import InputError, Problem, echo
 from aeroreview.rules import RULES_HINT, all_rules
@@ -40,7 +40,7 @@ from aeroreview.sections import (MAX_GROUND, MAX_TEXT, RESULT_KINDS, Attachment,
 from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
 __all__ = ["MAX_TEXT", "RESULT_KINDS", "Attachment", "Geometry", "Result", "Sheet", "Value", "Waiver", "YawPoint",
-           "from_document", "load_fleet", "load_sheet", "sheet_files", "suggest"]
+           "from_document", "load_fleet", "load_sheet", "sheet_files"]
 
 SLUG = re.compile(sections.SLUG)
 IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".svg", ".webp", ".gif")
@@ -103,21 +103,6 @@ class Sheet:
     @property
     def label(self) -> str:
         return f"{self.vehicle_id}@{self.revision}"
-
-
-def suggest(word: str, options, elsewhere: str = "see `aeroreview schema` for the valid keys") -> str:
-    """A did-you-mean hint for a mistyped word; else the options when they are few, else where to look."""
-    options = [str(o) for o in options]
-    close = close_match(word, options)
-    if close:
-        return f"did you mean '{close}'?"
-    return f"choose one of {', '.join(options)}" if 0 < len(options) <= 8 else elsewhere
-
-
-def close_match(word: str, options) -> str | None:
-    """The option closest to a mistyped word, if one is close enough to be what was meant."""
-    close = difflib.get_close_matches(word, [str(o) for o in options], n=1, cutoff=0.6)
-    return close[0] if close else None
 
 
 class _Checker:
