@@ -24,6 +24,7 @@ import site
 import subprocess
 import sys
 import sysconfig
+import tomllib
 import venv
 import zipfile
 from pathlib import Path
@@ -32,7 +33,15 @@ import pytest
 
 from conftest import ROOT, VEHICLES
 
-BUILD_INPUTS = ("pyproject.toml", "README.md", "aeroreview", "calc", "rules")  # what setuptools reads
+
+def build_inputs() -> list[str]:
+    """What setuptools reads: pyproject.toml, the readme and every folder package-dir maps."""
+    config = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))
+    return ["pyproject.toml", config["project"]["readme"],
+            *dict.fromkeys(config["tool"]["setuptools"]["package-dir"].values())]
+
+
+
 SURFACE = VEHICLES / "tessel" / "surface" / "tessel-r2.ply"
 
 
@@ -48,7 +57,7 @@ def installed(tmp_path_factory):
     work = tmp_path_factory.mktemp("wheel")
     source = work / "source"  # a copy: a build in the repository would leave, and later reuse, build/
     source.mkdir()
-    for name in BUILD_INPUTS:
+    for name in build_inputs():
         if (ROOT / name).is_dir():
             shutil.copytree(ROOT / name, source / name, ignore=shutil.ignore_patterns("__pycache__"))
         else:
