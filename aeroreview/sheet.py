@@ -567,7 +567,10 @@ def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
             files.append(path)
         else:
             problems.append(Problem(str(given), 1, 1, "no such file or folder", "check the path"))
-    return files, problems
+    unique = {}  # a sheet named twice (a folder and a file in it) is read once
+    for file in files:
+        unique.setdefault(file.resolve(), file)
+    return list(unique.values()), problems
 
 
 def _sibling_revisions(folders, loaded: set[Path]) -> dict[tuple[str, str], None]:
