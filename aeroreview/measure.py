@@ -13,19 +13,18 @@ from __future__ import annotations
 import csv
 import io
 import math
-import shutil
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue, yamldoc
+from aeroreview import catalogue
 from aeroreview.calc.geometry.profile import Measurement, measure_centreline, plan_taper
 from aeroreview.calc.geometry.projection import projected_area
 from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_mesh
 from aeroreview.problems import InputError, Problem, UsageError
-from aeroreview.sheet import from_document
+from aeroreview.sheetedit import edit_sheet
 from aeroreview.units import from_si
 
 MESH_SUFFIXES = (".stl", ".obj", ".ply")
@@ -351,55 +350,35 @@ def as_text(result: Result, source: str) -> str:
 
 # -- merging into a sheet -------------------------------------------------------------
 def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwrite: bool = False) -> dict:
-    """Write the measured features into a sheet, keeping comments and the user's values.
+    """Write the measured features into a sheet, keeping comments and the user's values
+    (through :func:`aeroreview.sheetedit.edit_sheet`, which keeps everything else too).
 
     Returns {"added": [...], "kept": [...], "replaced": [...], "backup": path or None}.
     Nothing is written when the merged sheet would not validate.
     """
-    from ruamel.yaml import YAML
     from ruamel.yaml.comments import CommentedMap
 
-    path = Path(sheet_path)
-    text = yamldoc.read_text(path)
-    yaml = YAML()
-    yaml.preserve_quotes = True
-    try:
-        data = yaml.load(text)
-    except Exception as error:  # noqa: BLE001 - ruamel raises many parser types
-        raise InputError([Problem(str(path), 1, 1, f"cannot read the sheet: {error}", "fix the YAML first")]) from None
-    if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
-        raise InputError([Problem(str(path), 1, 1, "the sheet has no 'features' mapping", "add `features:`")])
-    features = data["features"]
     report = {"added": [], "kept": [], "replaced": [], "backup": None}
-    for key, m in result.measured().items():
-        if key not in catalogue.BY_KEY:
-            continue
-        value, unit = _shown(m)
-        entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
-        entry.fa.set_flow_style()
-        if key in features:
-            if not overwrite:
+
+    def merge(data) -> tuple[dict, bool]:
+        if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
+            raise InputError([Problem(str(sheet_path), 1, 1, "the sheet has no 'features' mapping", "add `features:`")])
+        features = data["features"]
+        for key, m in result.measured().items():
+            if key not in catalogue.BY_KEY:
+                continue
+            value, unit = _shown(m)
+            entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
+            entry.fa.set_flow_style()
+            if key in features and not overwrite:
                 report["kept"].append(key)
                 continue
-            report["replaced"].append(key)
-        else:
-            report["added"].append(key)
-        features[key] = entry
-    buffer = io.StringIO()
-    yaml.dump(data, buffer)
-    new_text = buffer.getvalue()
-    from_document(yamldoc.parse(new_text, str(path)), path.parent, allow_placeholders=True)  # raises InputError: nothing written
-    if report["replaced"]:
-        backup = path.with_name(path.name + ".bak")
-        number = 1
-        while backup.exists():
-            backup = path.with_name(f"{path.name}.bak{number}")
-            number += 1
-        shutil.copy2(path, backup)
-        report["backup"] = str(backup)
-    temporary = path.with_name(f".{path.name}.tmp")
-    temporary.write_text(new_text, encoding="utf-8")
-    temporary.replace(path)
+            report["replaced" if key in features else "added"].append(key)
+            features[key] = entry
+        return report, bool(report["replaced"])
+
+    edit = edit_sheet(sheet_path, merge)
+    report["backup"] = None if edit.backup is None else str(edit.backup)
     return report
 
 
