@@ -48,7 +48,7 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
             if review.sheet.parent in known:
                 before = known[review.sheet.parent]
                 diff.write(out, before, review, digest.changes(before, review))
-    rules.write(out, reviews)
+    rules.write(out, grouped)
     calibrations.write(out)
     features.write(out)
     return out.site
