@@ -41,13 +41,13 @@ def calibration_page(out: Output, cal: Calibration) -> str:
               "| Surface | R^2 | RMSE [counts] |", "|---|---|---|"]
     lines += [f"| {name} | {m['cv_r2']:.3f} | {m['cv_rmse_counts']:.2f} |" for name, m in cal.models.items()]
     lines += ["", "## The team's sensitivities against the library's", "",
-              "| Column | Feature | Team [counts/unit] | 95 % interval | p | Library | Rule | Agreement |",
-              "|---|---|---|---|---|---|---|---|"]
+              "| Column | Team [counts/unit] | 95 % interval | p | Library | Rule | Agreement |",
+              "|---|---|---|---|---|---|---|"]
     for s in cal.slopes:
         library = "-" if s.library_counts_per_unit is None else f"{s.library_counts_per_unit:+.3g}"
         rule = used.get(s.feature)
-        rule_link = link(f"rules/{rule}.md", rule, 1) if rule else "no rule"
-        lines.append(f"| {esc(s.column)} | `{s.feature}` | {s.counts_per_unit:+.3g} per {esc(s.unit)} | "
+        rule_link = link(f"rules/{rule}.md", rule, 1) if rule else f"none for `{s.feature}`"
+        lines.append(f"| {esc(s.column)} | {s.counts_per_unit:+.3g} per {esc(s.unit)} | "
                      f"{s.ci95[0]:+.3g} to {s.ci95[1]:+.3g} | {s.p_value:.2g} | {library} | {rule_link} | "
                      f"**{s.agreement}** |")
     lines += ["", "*agrees*: the library's value lies inside the 95 % interval; *opposite sign*: the interval "
