@@ -141,7 +141,10 @@ def _cmd_measure(args) -> int:
             print(f"wrote {path}", file=sys.stderr)
     if args.sheet:
         report = measure.merge_into_sheet(args.sheet, result, source, args.overwrite)
-        print(f"{args.sheet}: added {len(report['added'])}, kept {len(report['kept'])} of your values"
+        for key, differs in report["differs"].items():
+            print(f"{args.sheet}: kept your {key} ({differs}); --overwrite takes the measurement", file=sys.stderr)
+        print(f"{args.sheet}: added {len(report['added'])}, filled {len(report['filled'])} template lines, "
+              f"kept {len(report['kept'])} of your values"
               + (f" ({', '.join(report['kept'])}; --overwrite replaces them)" if report["kept"] else "")
               + (f", replaced {len(report['replaced'])} (original kept as {report['backup']})" if report["replaced"] else ""),
               file=sys.stderr)

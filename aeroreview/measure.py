@@ -19,7 +19,7 @@ from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue
+from aeroreview import catalogue, sheetfill
 from aeroreview.calc.geometry.profile import Measurement, measure_centreline, plan_taper
 from aeroreview.calc.geometry.projection import projected_area
 from aeroreview.calc.geometry.mesh import edge_check, face_areas, merge_vertices
@@ -357,12 +357,14 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
     """Write the measured features into a sheet, keeping comments and the user's values
     (through :func:`aeroreview.sheetedit.edit_sheet`, which keeps everything else too).
 
-    Returns {"added": [...], "kept": [...], "replaced": [...], "backup": path or None}.
-    Nothing is written when the merged sheet would not validate.
+    Template placeholders are replaced and commented template lines filled where they stand
+    (:mod:`aeroreview.sheetfill`). Returns {"added": [...], "filled": [...], "kept": [...],
+    "differs": {key: "sheet X, surface Y"} for kept values beyond tolerance, "replaced": [...],
+    "backup": path or None}. Nothing is written when the merged sheet would not validate.
     """
     from ruamel.yaml.comments import CommentedMap
 
-    report = {"added": [], "kept": [], "replaced": [], "backup": None}
+    report = {"added": [], "filled": [], "kept": [], "differs": {}, "replaced": [], "backup": None}
 
     def merge(data) -> tuple[dict, bool]:
         if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
@@ -374,11 +376,15 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
             value, unit = _shown(m)
             entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
             entry.fa.set_flow_style()
-            if key in features and not overwrite:
+            if not sheetfill.is_unfilled(features, key) and not overwrite:
                 report["kept"].append(key)
+                differs = sheetfill.disagreement(key, features[key], m.value)
+                if differs:
+                    report["differs"][key] = differs
                 continue
-            report["replaced" if key in features else "added"].append(key)
-            features[key] = entry
+            replacing = not sheetfill.is_unfilled(features, key)
+            where = sheetfill.place(features, key, entry)
+            report["replaced" if replacing else "added" if where == "appended" else "filled"].append(key)
         return report, bool(report["replaced"])
 
     edit = edit_sheet(sheet_path, merge)
