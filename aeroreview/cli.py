@@ -13,7 +13,7 @@ import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, calc_cli, report, review, schema, template
+from aeroreview import __version__, calc_cli, report, results_cli, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError
 from aeroreview.rules import ZONES, all_rules
@@ -215,6 +215,7 @@ def build_parser() -> argparse.ArgumentParser:
     site.set_defaults(run=_cmd_site)
 
     calc_cli.add_parser(sub)
+    results_cli.add_parser(sub)
     return parser
 
 
