@@ -16,7 +16,7 @@ from pathlib import Path
 from aeroreview import __version__, calc_cli, report, results_cli, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError
-from aeroreview.rules import ZONES, all_rules
+from aeroreview.rules import REGIONS, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
 from aeroreview.sheet import load_fleet, sheet_files, suggest
 
@@ -85,11 +85,12 @@ def _cmd_rules(args) -> int:
 
 
 def _rule_json(rule) -> dict:
-    return {"id": rule.id, "zone": rule.zone, "title": rule.title, "severity": rule.severity,
+    return {"id": rule.id, "zone": rule.zone, "region": rule.region, "title": rule.title, "severity": rule.severity,
             "needs": list(rule.needs), "applies_to": list(rule.applies_to) or "all classes",
             "thresholds": [{"name": t.name, "default": t.default, "unit": t.unit, "description": t.description,
                             "source": t.source.as_dict()} for t in rule.thresholds],
             "sources": [s.as_dict() for s in rule.sources],
+            "sensitivity": rule.sensitivity.as_dict() if rule.sensitivity else None,
             "rationale": rule.doc.get("Why it matters", ""), "fix": rule.fix, "documentation": rule.doc}
 
 
@@ -137,13 +138,18 @@ def _cmd_explain(args) -> int:
         raise UsageError(f"unknown rule '{args.rule_id}'; {suggest(args.rule_id, rules)}")
     print(f"{rule.id}: {rule.title}\nzone: {ZONES[rule.zone]}; default severity: {rule.severity}; "
           f"needs: {', '.join(rule.needs) or 'results only'}"
-          + (f"; applies to: {', '.join(rule.applies_to)}" if rule.applies_to else ""))
+          + (f"; applies to: {', '.join(rule.applies_to)}" if rule.applies_to else "")
+          + (f"; acts on: {REGIONS[rule.region]}" if rule.region else ""))
     for heading, body in rule.doc.items():
         print(f"\n{heading}:\n" + textwrap.fill(body, 92, initial_indent="  ", subsequent_indent="  "))
     if rule.thresholds:
         print("\nThresholds (override in the aeroreview section of mkdocs.yml):")
         for t in rule.thresholds:
             print(f"  {t.name} = {t.default}: {t.description} [{t.source.kind}: {t.source.citation}]")
+    if rule.sensitivity:
+        sens = rule.sensitivity
+        print(f"\nSensitivity: {sens.counts_per_unit:+g} counts per {sens.unit} of {sens.feature} "
+              f"({sens.valid[0]:g} to {sens.valid[1]:g} {sens.unit}) [{sens.source.kind}: {sens.source.citation}]")
     print("\nSources:")
     for source in rule.sources:
         print(f"  [{source.kind}] {source.citation}")

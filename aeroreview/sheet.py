@@ -522,19 +522,22 @@ def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
     return files, problems
 
 
-def _sibling_revisions(folder: Path, loaded: list[Path]) -> dict[tuple[str, str], None]:
-    """(id, revision) of the sheets beside a sheet that were not loaded (a single file was checked)."""
+def _sibling_revisions(folders, loaded: set[Path]) -> dict[tuple[str, str], None]:
+    """(id, revision) of the sheets in ``folders`` that were not loaded (a single file was checked).
+
+    ``loaded`` holds the resolved paths of the loaded files; each folder is listed once.
+    """
     found = {}
-    done = {p.resolve() for p in loaded}
-    for path in sorted(folder.glob("*.y*ml")):
-        if path.resolve() in done:
-            continue
-        try:
-            data = yamldoc.load(path).data
-        except InputError:
-            continue
-        if isinstance(data, dict) and isinstance(data.get("id"), str) and isinstance(data.get("revision"), str):
-            found[(data["id"], data["revision"])] = None
+    for folder in sorted(set(folders)):
+        for path in sorted(folder.glob("*.y*ml")):
+            if path.resolve() in loaded:
+                continue
+            try:
+                data = yamldoc.load(path).data
+            except InputError:
+                continue
+            if isinstance(data, dict) and isinstance(data.get("id"), str) and isinstance(data.get("revision"), str):
+                found[(data["id"], data["revision"])] = None
     return found
 
 
@@ -543,7 +546,8 @@ def load_fleet(paths) -> Fleet:
 
     Fleet-level problems: two sheets with the same (vehicle id, revision), and a parent
     revision that no sheet of that vehicle provides (among the loaded sheets, or beside
-    the sheet in its folder when a single file is checked).
+    the sheet in its folder when a single file is checked). Linear in the sheets: the
+    loaded files are resolved once and each orphan's folder is listed once.
     """
     files, problems = sheet_files(paths)
     sheets: list[Sheet] = []
@@ -552,7 +556,7 @@ def load_fleet(paths) -> Fleet:
             sheets.append(load_sheet(file))
         except InputError as error:
             problems.extend(error.problems)
-    seen: dict[tuple[str, str], Sheet] = {}
+    seen: dict[tuple[str, str], Sheet | None] = {}
     for sheet in sheets:
         key = (sheet.vehicle_id, sheet.revision)
         if key in seen:
@@ -560,12 +564,21 @@ def load_fleet(paths) -> Fleet:
                                     f"it is also defined in {seen[key].path}; give each revision its own name"))
         else:
             seen[key] = sheet
-    for sheet in sheets:
-        if sheet.parent and (sheet.vehicle_id, sheet.parent) not in seen:
-            seen.update(_sibling_revisions(Path(sheet.path).parent, files))
-        if sheet.parent and (sheet.vehicle_id, sheet.parent) not in seen:
-            known = sorted(r for v, r in seen if v == sheet.vehicle_id)
-            problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,
-                                    f"parent revision '{sheet.parent}' of {sheet.vehicle_id} does not exist",
-                                    f"known revisions: {', '.join(known) or 'none'}; {suggest(sheet.parent, known)}"))
+    orphans = [s for s in sheets if s.parent and (s.vehicle_id, s.parent) not in seen]
+    if orphans:
+        loaded = {p.resolve() for p in files}
+        seen.update(_sibling_revisions((Path(s.path).parent for s in orphans), loaded))
+    revisions: dict[str, list[str]] = {}
+    for vehicle, revision in seen:
+        revisions.setdefault(vehicle, []).append(revision)
+    hints: dict[tuple[str, str], str] = {}  # one hint per (vehicle, missing parent)
+    for sheet in orphans:
+        key = (sheet.vehicle_id, sheet.parent)
+        if key in seen:
+            continue
+        if key not in hints:
+            known = sorted(revisions.get(sheet.vehicle_id, ()))
+            hints[key] = f"known revisions: {', '.join(known) or 'none'}; {suggest(sheet.parent, known)}"
+        problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,
+                                f"parent revision '{sheet.parent}' of {sheet.vehicle_id} does not exist", hints[key]))
     return Fleet(sheets, problems)

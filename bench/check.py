@@ -7,6 +7,10 @@ catalogue, and the review of every rule with its consequences. Prints sheets per
 and the ratio (b) / (a), each the best of three runs. Target: the ratio stays below 3
 and flat in N.
 
+A second case loads a whole fleet folder (2000 sheets) with ``load_fleet``, once with valid
+sheets and once with every sheet naming a parent revision that does not exist; target: the
+broken fleet loads within 2x the valid fleet's time (fleet loading stays linear).
+
 Run: python bench/check.py [N ...]
 """
 
@@ -23,17 +27,16 @@ from synthetic import DEMO, identity, templates, vary
 
 from aeroreview.review import review_sheet
 from aeroreview.settings import Settings
-from aeroreview.sheet import load_sheet
+from aeroreview.sheet import load_fleet, load_sheet
 
 
-
-def make_sheets(folder: Path, count: int, seed: int = 1) -> list[Path]:
+def make_sheets(folder: Path, count: int, seed: int = 1, parent: str | None = None) -> list[Path]:
     """Write ``count`` sheets: demo sheets with every number scaled by up to +-1 %."""
     rng = random.Random(seed)
     sources = templates()
     paths = []
     for i in range(count):
-        text = identity(vary(sources[i % len(sources)], rng, 0.01), f"car-{i}", "r1", None)
+        text = identity(vary(sources[i % len(sources)], rng, 0.01), f"car-{i}", "r1", parent)
         path = folder / f"sheet-{i:05d}.yaml"
         path.write_text(text, encoding="utf-8")
         paths.append(path)
@@ -54,6 +57,21 @@ def full(paths: list[Path], settings: Settings) -> float:
     return time.perf_counter() - start
 
 
+def fleet_case(count: int = 2000) -> None:
+    """Valid fleet against a fleet whose every sheet names a missing parent ('r0')."""
+    times = {}
+    for label, parent in (("valid", None), ("missing parents", "r0")):
+        with tempfile.TemporaryDirectory() as tmp:
+            make_sheets(Path(tmp), count, parent=parent)
+            times[label] = float("inf")
+            for _ in range(3):  # best of three, as above
+                start = time.perf_counter()
+                fleet = load_fleet([tmp])
+                times[label] = min(times[label], time.perf_counter() - start)
+            print(f"fleet of {count} sheets, {label}: {times[label]:.2f} s, {len(fleet.problems)} problems")
+    print(f"missing parents / valid: {times['missing parents'] / times['valid']:.2f} (target at most 2)")
+
+
 def main(sizes: list[int]) -> None:
     settings = Settings()
     review_sheet(load_sheet(sorted(DEMO.rglob("*.yaml"))[0]), settings)  # warm caches (pint, cycle data)
@@ -66,6 +84,7 @@ def main(sizes: list[int]) -> None:
             review_s = min(full(paths, settings) for _ in range(repeats))
         print(f"{n:>6} {parse_s:>9.3f} {n / parse_s:>9.0f} {review_s:>9.3f} {n / review_s:>9.0f} "
               f"{review_s / parse_s:>6.2f}")
+    fleet_case()
 
 
 if __name__ == "__main__":

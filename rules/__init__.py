@@ -15,6 +15,12 @@ Verdict levels are ``pass``, ``minor`` and ``major``; the review turns them into
 from the rule's severity (set per rule, overridable in the settings): ``major`` takes the
 severity itself, ``minor`` the level below it. One mechanism serves every rule, and a team
 that raises a rule to ``failure`` raises both of its bands.
+
+Each rule also names the flow region its fix acts on (:data:`REGIONS`): by default the
+region of its zone (:data:`ZONE_REGIONS`), or ``region=...`` in the decorator when the rule
+acts on another zone's flow (an air dam works on the underbody flow). The estimates combine
+the fixes of one region with each other, so two rules that charge for the same flow do not
+add up. Lift-only and data-quality rules have no region: they carry no drag counts.
 """
 
 from __future__ import annotations
@@ -32,9 +38,18 @@ from aeroreview.units import to_si
 STATUSES = ("pass", "advisory", "warning", "failure")  # in rising order of concern
 NOT_ASSESSED = "not assessed"
 SEVERITIES = ("advisory", "warning", "failure")
-SOURCE_KINDS = ("published", "standard", "common practice", "from memory")
+SOURCE_KINDS = ("published", "standard", "common practice", "from memory", "team data")
 ZONES = REVIEW_ZONES
 DOC_SECTIONS = ("What it checks", "Why it matters", "How to fix", "Known limits")
+
+# The flows a fix can act on: the regions of a typical drag breakdown (our grouping).
+REGIONS = {
+    "forebody": "Front and forebody", "upper": "Upper body and pillars", "rear": "Rear and base",
+    "underbody": "Underbody and diffuser", "wheels": "Wheels and wheelhouses", "cooling": "Cooling flow",
+    "appendages": "Mirrors and appendages",
+}
+ZONE_REGIONS = {"front": "forebody", "windshield": "upper", "rear": "rear", "sides": "appendages",
+                "underbody": "underbody", "wheels": "wheels", "cooling": "cooling", "stability": None, "data": None}
 
 
 @dataclass(frozen=True)
@@ -69,6 +84,27 @@ class Threshold:
 
     def parse(self, value) -> float:
         return to_si(value, self.unit)
+
+
+@dataclass(frozen=True)
+class Sensitivity:
+    """The rule's effect per unit of the feature it judges: drag counts per ``unit`` of ``feature``.
+
+    It holds inside ``valid`` (in ``unit``); the rule's fix takes the feature to its
+    threshold ``fix_to``, so a team calibration of the slope (``aeroreview calibrate``)
+    can re-cost the fix. Positive: more of the feature, more drag.
+    """
+
+    feature: str
+    counts_per_unit: float
+    unit: str
+    valid: tuple[float, float]
+    fix_to: str
+    source: Source
+
+    def as_dict(self) -> dict:
+        return {"feature": self.feature, "counts_per_unit": self.counts_per_unit, "unit": self.unit,
+                "valid": list(self.valid), "fix_to": self.fix_to, "source": self.source.as_dict()}
 
 
 @dataclass(frozen=True)
@@ -128,6 +164,8 @@ class Rule:
     check: Callable
     applies_to: tuple[str, ...] = ()  # vehicle classes; empty means every class
     figure: str | None = None  # name of a reference figure the site can draw
+    region: str | None = None  # the flow region its fix acts on (REGIONS); None: no drag counts
+    sensitivity: Sensitivity | None = None
 
     @property
     def doc(self) -> dict[str, str]:
@@ -167,19 +205,28 @@ def parse_doc(text: str) -> dict[str, str]:
 REGISTRY: dict[str, Rule] = {}
 
 
-def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=(), applies_to=(), figure=None):
-    """Register the decorated function as a rule (see the module docstring)."""
+def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=(), applies_to=(), figure=None,
+         region: str | None = "", sensitivity: Sensitivity | None = None):
+    """Register the decorated function as a rule (see the module docstring).
+
+    ``region`` defaults to the zone's flow region; give it where the fix acts on another flow.
+    """
     zone = id.split(".", 1)[0]
+    flow = ZONE_REGIONS.get(zone) if region == "" else region
 
     def register(function):
         if zone not in ZONES or not re.fullmatch(r"[a-z]+\.[a-z0-9-]+", id):
             raise ValueError(f"bad rule id {id!r}")
         if severity not in SEVERITIES:
             raise ValueError(f"{id}: severity must be one of {SEVERITIES}")
+        if flow is not None and flow not in REGIONS:
+            raise ValueError(f"{id}: region must be one of {tuple(REGIONS)}")
         if id in REGISTRY:
             raise ValueError(f"rule {id} registered twice")
+        if sensitivity and (sensitivity.feature not in needs or sensitivity.fix_to not in {t.name for t in thresholds}):
+            raise ValueError(f"{id}: a sensitivity needs one of the rule's features and thresholds")
         REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), tuple(sources), function,
-                            tuple(applies_to), figure)
+                            tuple(applies_to), figure, flow, sensitivity)
         return function
 
     return register

@@ -80,7 +80,7 @@ def corner_radius(sheet, ctx):
     return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner", (5, 25), (2, 8))
 
 
-@rule("front.air-dam", "Front air dam reaches below the underbody", "advisory",
+@rule("front.air-dam", "Front air dam reaches below the underbody", "advisory", region="underbody",
       needs=("front.air_dam_clearance", "dimensions.ground_clearance"),
       thresholds=(Threshold("dam_depth", "15 mm", "mm", "how far the dam edge should reach below the underbody", COMMON),),
       sources=(HUCHO, Source("effect: 3-12 counts and less front lift; from memory (Hucho 1998, front spoilers)",
@@ -109,7 +109,7 @@ def air_dam(sheet, ctx):
     return passed("the air dam shields the underbody", measured=measured, limit=f">= {ctx['dam_depth'] * 1000:.0f} mm")
 
 
-@rule("front.air-curtains", "Air curtains ahead of the front wheels", "advisory",
+@rule("front.air-curtains", "Air curtains ahead of the front wheels", "advisory", region="wheels",
       needs=("front.air_curtains",),
       sources=(Source("effect: 2-8 counts; from memory (published production-car figures for wheel air curtains)",
                       "from memory"),), applies_to=("sedan", "fastback", "hatchback", "estate", "suv", "sports"))

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd
-from aeroreview.rules import COMMON, HUCHO, Source, Threshold, body_scale, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, HUCHO, Sensitivity, Source, Threshold, body_scale, counts_range, major, minor, passed, rule
 
 AHMED = Source(AHMED_SOURCE + ": critical slant angle about 30 deg, drag peak just below it", "published")
 RADIUS_SOURCE = Source("Thacker, Aubrun, Leroy and Devinant, Exp. Fluids 53 (2012): rounding the roof-to-slant edge "
@@ -26,7 +26,10 @@ TAPER_SOURCE = Source("Hucho 1998, ch. 4, boat-tailing: drag falls with taper an
       sources=(AHMED, RADIUS_SOURCE,
                Source("effect: 20-60 % of the Ahmed-curve drag step; production bodies respond less than the "
                       "Ahmed body (from memory)", "from memory")),
-      applies_to=("sedan", "fastback", "hatchback", "estate", "sports"), figure="ahmed")
+      applies_to=("sedan", "fastback", "hatchback", "estate", "sports"), figure="ahmed",
+      sensitivity=Sensitivity("rear.backlight_angle", 3.2, "deg", (20, 28), "rising_low", Source(
+          "the Ahmed curve rises about 8 counts per deg from 20 to 28 deg (SAE 840300, values from memory); x 0.4 "
+          "for a production body, the middle of the rule's 20-60 %", "from memory")))
 def backlight_angle(sheet, ctx):
     """
     What it checks: where the backlight (rear window) angle lies on the Ahmed-body drag
@@ -103,7 +106,8 @@ _TAPER_THRESHOLDS = (
 
 @rule("rear.side-taper", "Rear plan-view taper (boat-tailing)", "warning",
       needs=("rear.side_taper_angle",), thresholds=_TAPER_THRESHOLDS,
-      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")))
+      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
+      sensitivity=Sensitivity("rear.side_taper_angle", -1.5, "deg", (0, 15), "useful", TAPER_SOURCE))
 def side_taper(sheet, ctx):
     """
     What it checks: the plan-view taper of the body sides over the last part of the body.
@@ -125,7 +129,8 @@ def side_taper(sheet, ctx):
 @rule("rear.roof-taper", "Roof drop toward the rear (side-view boat-tailing)", "warning",
       needs=("rear.roof_taper_angle",), thresholds=_TAPER_THRESHOLDS,
       sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
-      applies_to=("suv", "estate", "hatchback", "van", "pickup"))
+      applies_to=("suv", "estate", "hatchback", "van", "pickup"),
+      sensitivity=Sensitivity("rear.roof_taper_angle", -1.5, "deg", (0, 15), "useful", TAPER_SOURCE))
 def roof_taper(sheet, ctx):
     """
     What it checks: the side-view drop of the roof over its last part on square-backed
@@ -198,7 +203,7 @@ def spoiler(sheet, ctx):
     return passed("the rear kick-up height is in the useful range", measured=measured, limit=limits)
 
 
-@rule("rear.roof-rails", "Roof rails", "warning",
+@rule("rear.roof-rails", "Roof rails", "warning", region="appendages",
       needs=("rear.roof_rails",),
       sources=(Source("effect: raised rails 5-15 counts; from memory (published production-car comparisons)",
                       "from memory"),))

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 
-from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
 DIFFUSER_SOURCE = Source("Cooper, Bertenyi, Dutil, Syms and Sovran, SAE 980030 (1998): bluff-body diffusers in "
                          "ground effect gain up to about 10 deg, then separate; recalled", "from memory")
@@ -15,7 +15,10 @@ DIFFUSER_SOURCE = Source("Cooper, Bertenyi, Dutil, Syms and Sovran, SAE 980030 (
       thresholds=(Threshold("target", "80 %", "%", "coverage a current car reaches", COMMON),
                   Threshold("poor", "50 %", "%", "coverage below which the underbody is largely open", COMMON)),
       sources=(COMMON, Source("effect: a fully panelled floor saves 20-50 counts against an open one; from memory "
-                              "(Hucho 1998, ch. 4, underbody)", "from memory")))
+                              "(Hucho 1998, ch. 4, underbody)", "from memory")),
+      sensitivity=Sensitivity("underbody.panel_coverage", -0.35, "%", (25, 100), "target", Source(
+          "the middle of the rule's 20-50 counts for a fully panelled floor, per % of coverage",
+          "from memory")))
 def panel_coverage(sheet, ctx):
     """
     What it checks: the share of the underbody between the bumpers covered by smooth panels.
@@ -48,7 +51,10 @@ def panel_coverage(sheet, ctx):
                             DIFFUSER_SOURCE),
                   Threshold("edge", "10 deg", "deg", "angle above which separation is near", DIFFUSER_SOURCE)),
       sources=(DIFFUSER_SOURCE, Source("effect: a separated diffuser loses 5-20 counts and its downforce; from "
-                                       "memory", "from memory")))
+                                       "memory", "from memory")),
+      sensitivity=Sensitivity("underbody.diffuser_angle", 2.0, "deg", (8, 16), "edge", Source(
+          "about 2 counts per deg steeper where the diffuser flow starts to separate (the rule's 5-20 counts over "
+          "the separation)", "from memory")))
 def diffuser_angle(sheet, ctx):
     """
     What it checks: the upsweep angle of the rear underbody (the diffuser).
@@ -103,7 +109,9 @@ def diffuser_exposed(sheet, ctx):
       needs=("underbody.pitch",),
       thresholds=(Threshold("nose_up", "-0.5 deg", "deg", "pitch below which the underbody opens to the flow", COMMON),),
       sources=(COMMON, Source("effect: 2-6 counts and about 0.02 more front lift per degree nose-up; from memory",
-                              "from memory")))
+                              "from memory")),
+      sensitivity=Sensitivity("underbody.pitch", -4.0, "deg", (-2, 1), "nose_up", Source(
+          "the middle of 2-6 counts per deg nose-up (pitch is positive nose-down)", "from memory")))
 def pitch(sheet, ctx):
     """
     What it checks: the static pitch of the underbody at curb ride height.

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
 WHEEL_SOURCE = Source("Wickern, Zwicker and Pfadenhauer, SAE 970133 (1997), and Landstrom, Walker and Lofdahl, "
                       "SAE 2009-01-0778: rim design changes drag by 10-20 counts; recalled", "from memory")
@@ -13,7 +13,9 @@ WHEEL_SOURCE = Source("Wickern, Zwicker and Pfadenhauer, SAE 970133 (1997), and 
       thresholds=(Threshold("open", "35 %", "%", "open share above which the rims pump air", WHEEL_SOURCE),
                   Threshold("closed", "20 %", "%", "open share a low-drag rim reaches", WHEEL_SOURCE)),
       sources=(WHEEL_SOURCE, Source("effect: about 3-6 counts per 10 % of openness closed; from memory",
-                                    "from memory")))
+                                    "from memory")),
+      sensitivity=Sensitivity("wheels.rim_openness", 0.45, "%", (10, 60), "closed", Source(
+          "the middle of about 3-6 counts per 10 % of openness", "from memory")))
 def rim_openness(sheet, ctx):
     """
     What it checks: the open share of the rim face (open area between the spokes over the

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 
-from aeroreview.rules import COMMON, HUCHO, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, HUCHO, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
 
 @rule("windshield.angle", "Windshield inclination", "warning",
@@ -15,7 +15,9 @@ from aeroreview.rules import COMMON, HUCHO, Source, Threshold, counts_range, maj
       sources=(Source("Hucho 1998, ch. 4: drag falls as the windshield is laid back to about 30 deg from horizontal "
                       "(60 deg rake), with little gain beyond; recalled", "from memory"),
                Source("effect: about 1 count per degree above 33 deg, from memory", "from memory")),
-      applies_to=("sedan", "fastback", "hatchback", "estate", "suv", "sports"))
+      applies_to=("sedan", "fastback", "hatchback", "estate", "suv", "sports"),
+      sensitivity=Sensitivity("windshield.angle", 1.0, "deg", (30, 50), "steep", Source(
+          "about 1 count per degree above 33 deg (Hucho 1998, ch. 4, recalled)", "from memory")))
 def windshield_angle(sheet, ctx):
     """
     What it checks: the windshield inclination from horizontal in the side view.

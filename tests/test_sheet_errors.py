@@ -125,6 +125,17 @@ def test_parent_revision_that_does_not_exist(cli, write_sheet):
     assert located(cli("check", path), path, "parent revision 'r0' of test-car does not exist") == (3, 1)
 
 
+def test_parent_beside_a_single_checked_file_is_found(cli, write_sheet):
+    write_sheet(MINIMAL, "r1.yaml")
+    child = write_sheet(MINIMAL.replace("revision: r1\n", "revision: r2\nparent: r1\n"), "r2.yaml")
+    orphan = write_sheet(MINIMAL.replace("revision: r1\n", "revision: r3\nparent: r9\n"), "r3.yaml")
+    assert "does not exist" not in cli("check", child).err
+    run = cli("check", child, orphan)
+    hint = [line for line in run.err.splitlines() if "'r9'" in line]
+    assert located(run, orphan, "parent revision 'r9' of test-car does not exist") == (3, 1)
+    assert "known revisions: r1, r2, r3" in hint[0], run.err
+
+
 @pytest.mark.parametrize("bad_id", ["../x", "my car", "a/b", "Test", "-x", "x-", "a" * 70])
 def test_vehicle_id_must_be_a_safe_slug(cli, write_sheet, bad_id):
     path = write_sheet(MINIMAL.replace("id: test-car", f"id: '{bad_id}'"))

@@ -5,7 +5,8 @@ review settings (:mod:`aeroreview.settings`), read from the same section of mkdo
 
 - ``on_config``: load the settings and the sheets, review them, generate every page and
   figure in memory; on a plain ``mkdocs build``, redirect the output to a temporary folder.
-- ``on_files``: add the generated files (nothing is written into ``site_src/``).
+- ``on_files``: add the generated files and the attachments to copy (nothing is written into
+  ``site_src/``).
 - ``on_page_markdown``: put the fleet table into the home page.
 - ``on_serve``: watch the sheets, so ``mkdocs serve`` rebuilds when a sheet changes.
 - ``on_post_build`` / ``on_build_error``: swap the finished site into place, or drop the
@@ -91,6 +92,8 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
     def on_files(self, files, *, config):
         for path, content in sorted(self.site.files.items()):
             files.append(File.generated(config, path, content=content))
+        for path, source in sorted(self.site.copies.items()):  # attachments, copied unchanged
+            files.append(File.generated(config, path, abs_src_path=str(source)))
         return files
 
     def on_page_markdown(self, markdown, *, page, config, files):

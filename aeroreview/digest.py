@@ -1,0 +1,227 @@
+"""What the review site shows beside the findings, computed once per review.
+
+The site's page writers only format: every number a page or figure shows that is not
+already in a :class:`~aeroreview.review.Review` is computed here, in the engine, and handed
+over as a small dataclass (series against speed, the yaw sweep's wind average, the
+backlight on the Ahmed curve, the measured surface, the changes between two revisions).
+Lift per axle always comes from :func:`aeroreview.rules.stability.axle_figures`, so the
+lift figure, the key-number table and the stability rules show one number.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import math
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from aeroreview import catalogue
+from aeroreview.calc.forces import drag_force
+from aeroreview.calc.references import AHMED_ATTACHED, AHMED_SEPARATED, AHMED_SOURCE
+from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
+from aeroreview.review import Finding, Review
+from aeroreview.rules import NOT_ASSESSED, Context, all_rules
+from aeroreview.rules.stability import axle_figures
+from aeroreview.settings import Settings, status_rank
+
+SPEED_STEP_KM_H = 10  # spacing of the speed series [km/h] (our convention)
+LOWEST_SPEED_KM_H = 20  # start of the speed series [km/h] (our convention)
+DEFAULT_TOP_KM_H = 200  # top of the series when the sheet gives no top speed [km/h] (our convention)
+
+
+@dataclass(frozen=True)
+class DragSeries:
+    """Drag force and power in still air against speed."""
+
+    speed_km_h: list[float]
+    drag_N: list[float]
+    power_kW: list[float]
+
+
+@dataclass(frozen=True)
+class LiftSeries:
+    """Lift per axle [kg] against speed, from the same result and area as the stability rules."""
+
+    speed_km_h: list[float]
+    front_kg: list[float]
+    rear_kg: list[float]
+    rear_static_kg: float
+    top_km_h: float
+    cl_front: float
+    cl_rear: float
+
+
+@dataclass(frozen=True)
+class YawSweep:
+    """A result's yaw sweep and its wind-averaged drag coefficient (SAE J1252 wind)."""
+
+    label: str
+    yaw_deg: list[float]
+    cd: list[float]
+    cd_wind_averaged: float | None  # None when the sweep cannot be averaged; then ``problem`` says why
+    max_yaw_deg: float
+    wind_m_s: float
+    speed_km_h: float
+    problem: str = ""
+
+
+@dataclass(frozen=True)
+class AhmedCurve:
+    """The Ahmed-body drag curve, the backlight rule's critical region [deg] and the sheet's angle."""
+
+    attached: list[list[float]]
+    separated: list[list[float]]
+    critical_low: float
+    critical_high: float
+    angle: float | None
+    source: str
+
+
+@dataclass(frozen=True)
+class RevisionFigures:
+    """Everything the revision page draws beside the review's own numbers."""
+
+    drag: DragSeries
+    lift: LiftSeries | None
+    ahmed: AhmedCurve | None
+    yaw: YawSweep | None
+    geometry: dict | None  # silhouette and section data of the measured surface
+    zone_status: dict[str, str] = field(default_factory=dict)  # worst assessed status per zone
+
+
+@dataclass(frozen=True)
+class FeatureChange:
+    key: str
+    before: str  # display text, "not given" when absent
+    after: str
+
+
+@dataclass(frozen=True)
+class FindingChange:
+    finding: Finding  # the finding in the later revision
+    was: str  # its status in the earlier one
+
+
+@dataclass(frozen=True)
+class Changes:
+    """What changed from one revision to the next: features, and findings by kind of change."""
+
+    features: list[FeatureChange]
+    findings: dict[str, list[FindingChange]]  # appeared, resolved, worse, better (in that order)
+
+
+def critical_region(settings: Settings) -> tuple[float, float]:
+    """The backlight rule's critical region [deg], after the team's overrides."""
+    rule = all_rules()["rear.backlight-angle"]
+    thresholds = {**rule.defaults(), **next((c.thresholds for r, c, _ in settings.rule_plan if r is rule), {})}
+    return math.degrees(thresholds["critical_low"]), math.degrees(thresholds["critical_high"])
+
+
+def ahmed_curve(settings: Settings, angle: float | None) -> AhmedCurve:
+    """The reference curve with the configured critical region; ``angle`` [rad] or None."""
+    low, high = critical_region(settings)
+    return AhmedCurve([[p.angle, p.cd] for p in AHMED_ATTACHED], [[p.angle, p.cd] for p in AHMED_SEPARATED],
+                      low, high, None if angle is None else math.degrees(angle), AHMED_SOURCE)
+
+
+def _speeds(review: Review) -> tuple[list[float], float]:
+    top = (review.sheet.get("powertrain.top_speed") or DEFAULT_TOP_KM_H / 3.6) * 3.6
+    end = max(top, review.key_numbers["reference_speed_km_h"]) + 1
+    return [float(v) for v in np.arange(LOWEST_SPEED_KM_H, end, SPEED_STEP_KM_H)], top
+
+
+def drag_series(review: Review, speeds: list[float], density: float) -> DragSeries:
+    n = review.key_numbers
+    drag = [float(drag_force(n["cd"], n["area"], v / 3.6, density)) for v in speeds]
+    return DragSeries(speeds, drag, [d * v / 3.6 / 1000 for d, v in zip(drag, speeds)])
+
+
+def lift_series(review: Review, speeds: list[float], top: float, context: Context) -> LiftSeries | None:
+    sheet = review.sheet
+    if not review.key_numbers.get("lift_reference") or not sheet.has("mass.curb", "mass.front_axle_share"):
+        return None
+    points = [axle_figures(sheet, context, v / 3.6) for v in speeds]
+    rear_static = sheet.get("mass.curb") * (1 - sheet.get("mass.front_axle_share"))
+    return LiftSeries(speeds, [p["front_kg"] for p in points], [p["rear_kg"] for p in points], rear_static, top,
+                      points[0]["cl_front"], points[0]["cl_rear"])
+
+
+def yaw_sweep(review: Review, speed: float) -> YawSweep | None:
+    """The first result with a yaw sweep of two points or more, averaged at ``speed`` [m/s]."""
+    result = next((r for r in review.sheet.results if len(r.yaw_sweep) >= 2), None)
+    if result is None:
+        return None
+    yaw = [p.yaw for p in result.yaw_sweep]
+    cd = [p.cd for p in result.yaw_sweep]
+    common = dict(label=result.label, yaw_deg=[math.degrees(a) for a in yaw], cd=cd,
+                  max_yaw_deg=math.degrees(max_yaw(speed)), wind_m_s=J1252_WIND_SPEED, speed_km_h=speed * 3.6)
+    try:
+        return YawSweep(cd_wind_averaged=wind_averaged_cd(yaw, cd, speed), **common)
+    except ValueError as problem:
+        return YawSweep(cd_wind_averaged=None, problem=str(problem), **common)
+
+
+def zone_status(review: Review) -> dict[str, str]:
+    """The worst assessed status of each zone (zones with nothing flagged are absent or "pass")."""
+    worst: dict[str, str] = {}
+    for f in review.findings:
+        if f.status != NOT_ASSESSED and status_rank(f.status) >= status_rank(worst.get(f.rule.zone, "pass")):
+            worst[f.rule.zone] = f.status
+    return worst
+
+
+def measured_geometry(sheet, cache_folder: Path | None) -> dict:
+    """Silhouette and section figure data of a sheet's surface, cached by the file's hash."""
+    from aeroreview import measure
+
+    geometry = sheet.geometry
+    path = Path(sheet.path).parent / geometry.file
+    digest = hashlib.sha256(path.read_bytes() + repr(geometry).encode()).hexdigest()[:24]
+    cached = cache_folder / f"{digest}.json" if cache_folder else None
+    if cached and cached.is_file():
+        return json.loads(cached.read_text(encoding="utf-8"))
+    result = measure.measure(measure.load_surface(path, geometry.units, geometry.nose, geometry.up, geometry.ground))
+    data = {"silhouette": measure.silhouette_data(result), "sections": measure.sections_data(result)}
+    if cached:
+        cached.parent.mkdir(parents=True, exist_ok=True)
+        cached.write_text(json.dumps(data), encoding="utf-8")
+    return data
+
+
+def revision_figures(review: Review, settings: Settings, geometry_cache: Path | None) -> RevisionFigures:
+    """The series and reference data of one revision's figures."""
+    air = settings.air()
+    context = Context({}, settings.reference_speed, air.density, air.kinematic_viscosity)
+    speeds, top = _speeds(review)
+    sheet = review.sheet
+    ahmed = ahmed_curve(settings, sheet.get("rear.backlight_angle")) if sheet.has("rear.backlight_angle") else None
+    return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
+                           yaw_sweep(review, settings.reference_speed),
+                           measured_geometry(sheet, geometry_cache) if sheet.geometry else None, zone_status(review))
+
+
+def changes(before: Review, after: Review) -> Changes:
+    """Features whose shown value changed, and findings that appeared, resolved, got worse or better."""
+    features = []
+    for item in catalogue.FEATURES:
+        old, new = before.sheet.features.get(item.key), after.sheet.features.get(item.key)
+        old_text = old.display(item) if old else "not given"
+        new_text = new.display(item) if new else "not given"
+        if old_text != new_text:
+            features.append(FeatureChange(item.key, old_text, new_text))
+    old = {f.rule.id: f for f in before.findings}
+    groups: dict[str, list[FindingChange]] = {"appeared": [], "resolved": [], "worse": [], "better": []}
+    for f in after.findings:
+        prior = old.get(f.rule.id)
+        was = prior.status if prior else NOT_ASSESSED
+        now_rank, was_rank = status_rank(f.status), status_rank(was)
+        if now_rank > 0 and was_rank <= 0:
+            groups["appeared"].append(FindingChange(f, was))
+        elif was_rank > 0 and now_rank <= 0 and f.status != NOT_ASSESSED:
+            groups["resolved"].append(FindingChange(f, was))
+        elif now_rank > 0 and was_rank > 0 and now_rank != was_rank:
+            groups["worse" if now_rank > was_rank else "better"].append(FindingChange(f, was))
+    return Changes(features, groups)

@@ -1,0 +1,109 @@
+"""What every page writer shares: the one escaping path, links, figures, and the output.
+
+Every piece of text that comes from a sheet goes through :func:`esc` (titles through
+:func:`heading`), so that HTML and Markdown in a note or a name show as typed, never as
+markup. Page writers only format: numbers come from the review and from
+:mod:`aeroreview.digest`.
+"""
+
+from __future__ import annotations
+
+import json
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from aeroreview.review import Review
+from aeroreview.settings import Settings
+from aeroreview.site.figures import FigureCache
+
+CAUTION = ("!!! warning \"Cautions\"\n"
+           "    Aerodynamic changes alter high-speed stability, cooling, braking and pedestrian-impact behaviour.\n"
+           "    These findings are review aids built from rules of thumb and published results, not sign-off:\n"
+           "    confirm every change by validated CFD, wind-tunnel and road testing, follow your local vehicle\n"
+           "    regulations (aftermarket body parts included), and have changes approved by licensed engineers.\n")
+# HTML's special characters and Markdown's, each replaced by a character entity in one pass.
+_INERT = {**{c: f"&#{ord(c)};" for c in "\\`*_{}[]()#+-!|~"},
+          "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#x27;"}
+
+
+def esc(text) -> str:
+    """Sheet text made inert: HTML and Markdown specials as entities, folded onto one line."""
+    return " ".join("".join(_INERT.get(c, c) for c in str(text)).split())
+
+
+def heading(text: str) -> str:
+    """Front matter and an H1 for a page whose title holds sheet text.
+
+    MkDocs and the theme put a page's title into <title> and the navigation unescaped, so
+    the title itself must carry no markup characters at all: they are dropped from it (the
+    H1 on the page shows the full text, escaped).
+    """
+    plain = "".join(c for c in str(text) if c not in "<>&\"'`\\") or "untitled"
+    return f"---\ntitle: {json.dumps(' '.join(plain.split()))}\n---\n\n# {esc(text)}"
+
+
+def paragraphs(text: str) -> str:
+    """Multi-line sheet text (notes) as escaped paragraphs."""
+    return "\n\n".join(esc(part) for part in str(text).split("\n\n") if part.strip())
+
+
+def badge(status: str) -> str:
+    css = status.replace(" ", "-")
+    return f'<span class="ar-status ar-{css}">{status}</span>'
+
+
+def link(target: str, text: str, depth: int) -> str:
+    """A Markdown link to a page given from the docs root, from a page ``depth`` folders down."""
+    return f"[{text}]({'../' * depth}{target})"
+
+
+def revision_path(review: Review) -> str:
+    return f"fleet/{review.sheet.vehicle_id}/{review.sheet.revision}.md"
+
+
+def score_text(review: Review) -> str:
+    score = "not assessed" if review.score is None else f"{review.score:.0f}"
+    return f"{score} ({review.coverage * 100:.0f} %)"
+
+
+def recoverable_text(review: Review) -> str:
+    return f"{review.recoverable[0]:g}-{review.recoverable[1]:g}"
+
+
+@dataclass
+class Site:
+    """What :func:`aeroreview.site.pages.generate` returns.
+
+    ``files``: generated pages and figures by path inside the docs; ``copies``: files the
+    plugin copies unchanged into the site (target path inside the docs, source file).
+    """
+
+    files: dict[str, str | bytes] = field(default_factory=dict)
+    copies: dict[str, Path] = field(default_factory=dict)
+    home_table: str = ""
+
+
+@dataclass
+class Output:
+    """Where page writers put what they write, with the settings and the figure cache."""
+
+    settings: Settings
+    cache: FigureCache
+    site: Site = field(default_factory=Site)
+
+    def page(self, path: str, text: str) -> None:
+        self.site.files[path] = text
+
+    def figure(self, kind: str, data, alt: str, depth: int) -> str:
+        """Draw (or reuse) a figure and return its Markdown image from a page ``depth`` folders down."""
+        name, content = self.cache.svg(kind, data)
+        self.site.files[f"figures/{name}"] = content
+        return f'![{esc(alt)}]({"../" * depth}figures/{name})'
+
+    def sheet_name(self, sheet) -> str:
+        """The sheet's path relative to the knowledge base (never the reviewer's absolute path)."""
+        path = Path(sheet.path).resolve()
+        try:
+            return path.relative_to(self.settings.root.resolve()).as_posix()
+        except ValueError:
+            return path.name

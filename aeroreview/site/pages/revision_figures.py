@@ -1,0 +1,93 @@
+"""The figures section of a revision's page: the digest's series drawn, with alt text.
+
+Figure data are rounded here (what a figure shows, and what its cache key depends on);
+every value comes from :class:`aeroreview.digest.RevisionFigures` or the review.
+"""
+
+from __future__ import annotations
+
+from dataclasses import asdict
+
+from aeroreview.digest import AhmedCurve, RevisionFigures, YawSweep
+from aeroreview.review import Review
+from aeroreview.rules import ZONES
+from aeroreview.site.pages.common import Output, esc
+
+WATERFALL_STEPS = 8  # the largest fixes only: beyond these, interactions swamp the sum
+
+
+def ahmed_data(curve: AhmedCurve) -> dict:
+    return {**asdict(curve), "critical_low": round(curve.critical_low, 2),
+            "critical_high": round(curve.critical_high, 2),
+            "angle": None if curve.angle is None else round(curve.angle, 2)}
+
+
+def section(out: Output, review: Review, figures: RevisionFigures) -> list[str]:
+    n = review.key_numbers
+    lines = ["## Figures", ""]
+    zone_data = {"zones": [{"title": ZONES[z.zone], "score": None if z.score is None else round(z.score, 1),
+                            "coverage": round(z.coverage, 3)} for z in review.zones.values()],
+                 "score": None if review.score is None else round(review.score, 1),
+                 "coverage": round(review.coverage, 3)}
+    lines += [out.figure("zones", zone_data, "Zone scores: " + ", ".join(
+        f"{z['title']} {'not assessed' if z['score'] is None else round(z['score'])}" for z in zone_data["zones"]),
+        2), ""]
+    drag = figures.drag
+    lines += [out.figure("drag-power", {"speed_km_h": drag.speed_km_h, "drag_N": [round(d, 2) for d in drag.drag_N],
+                                        "power_kW": [round(p, 3) for p in drag.power_kW],
+                                        "reference_km_h": n["reference_speed_km_h"], "cd": n["cd"], "area": n["area"]},
+                         f"Drag force and power against speed; at {n['reference_speed_km_h']:.0f} km/h "
+                         f"{n['drag_N']:.0f} N and {n['drag_power_kW']:.1f} kW", 2), ""]
+    lift = figures.lift
+    if lift:
+        data = {"speed_km_h": lift.speed_km_h, "front_kg": [round(f, 2) for f in lift.front_kg],
+                "rear_kg": [round(r, 2) for r in lift.rear_kg], "rear_static_kg": round(lift.rear_static_kg, 1),
+                "reference_km_h": n["reference_speed_km_h"], "top_km_h": lift.top_km_h,
+                "cl_front": lift.cl_front, "cl_rear": lift.cl_rear}
+        lines += [out.figure("lift", data, f"Lift per axle against speed: at {lift.top_km_h:.0f} km/h front "
+                             f"{data['front_kg'][-1]:+.0f} kg, rear {data['rear_kg'][-1]:+.0f} kg", 2), ""]
+    breakdown = {k: round(v, 4) for k, v in n["energy_breakdown_kWh"].items()}
+    lines += [out.figure("energy", {**breakdown, "cycle": n["cycle"], "aero_share": round(n["aero_share"], 4)},
+                         f"Energy breakdown on {n['cycle']}: rolling {breakdown['rolling']:.2f} kWh, aerodynamic "
+                         f"{breakdown['aero']:.2f} kWh, braking {breakdown['braking']:.2f} kWh", 2), ""]
+    if figures.ahmed:
+        lines += [out.figure("ahmed", ahmed_data(figures.ahmed), f"The backlight angle {figures.ahmed.angle:.1f} deg "
+                             "on the Ahmed-body drag curve, with the critical region near 30 deg", 2), ""]
+    fixes = review.ranked_fixes[:WATERFALL_STEPS]
+    if fixes:
+        steps = [[f.rule.id, round(f.benefit, 2)] for f in fixes]
+        lines += [out.figure("waterfall", {"cd": n["cd"], "steps": steps},
+                             f"Savings waterfall from Cd {n['cd']:.3f} through the {len(steps)} largest ranked fixes",
+                             2), ""]
+    if figures.yaw:
+        lines += yaw(out, figures.yaw)
+    if figures.geometry:
+        lines += geometry(out, review, figures)
+    return lines
+
+
+def yaw(out: Output, sweep: YawSweep) -> list[str]:
+    if sweep.cd_wind_averaged is None:
+        return [f"Yaw sweep: no wind-averaged value ({esc(sweep.problem)}).", ""]
+    data = {"yaw_deg": [round(a, 3) for a in sweep.yaw_deg], "cd": sweep.cd,
+            "cd_wind_averaged": round(sweep.cd_wind_averaged, 5), "max_yaw_deg": round(sweep.max_yaw_deg, 3),
+            "wind_m_s": round(sweep.wind_m_s, 3), "speed_km_h": round(sweep.speed_km_h, 1), "label": sweep.label}
+    return [out.figure("yaw", data, f"Yaw sweep of {sweep.label}: wind-averaged Cd {sweep.cd_wind_averaged:.4f} at "
+                       f"{sweep.speed_km_h:.0f} km/h", 2), ""]
+
+
+def geometry(out: Output, review: Review, figures: RevisionFigures) -> list[str]:
+    """The measured silhouette, each zone in its review status, and the horizontal sections."""
+    data = figures.geometry
+    silhouette = {**data["silhouette"],
+                  "parts": [{**part, "status": figures.zone_status.get(part["zone"], "not assessed")}
+                            for part in data["silhouette"]["parts"]],
+                  "title": f"Measured centreline of {review.sheet.geometry.file}, zones by review status"}
+    alt = "Side silhouette measured from the surface, coloured by zone status: " + ", ".join(
+        f"{p['zone']} {p['status']}" for p in silhouette["parts"]) + "; " + ", ".join(
+        n["text"] for n in silhouette["notes"])
+    lines = ["### Measured surface", "", out.figure("silhouette", silhouette, alt, 2), ""]
+    if data["sections"]["sections"]:
+        lines += [out.figure("sections", data["sections"], "Horizontal sections at " + ", ".join(
+            s["label"] for s in data["sections"]["sections"]), 2), ""]
+    return lines

@@ -1,0 +1,47 @@
+"""The rule index and one page per rule, generated from the rule's code and docstring."""
+
+from __future__ import annotations
+
+from aeroreview.digest import ahmed_curve
+from aeroreview.review import Review
+from aeroreview.rules import ZONES, Rule, all_rules
+from aeroreview.site.pages.common import Output, badge, esc, link, revision_path
+from aeroreview.site.pages.revision_figures import ahmed_data
+
+
+def write(out: Output, reviews: list[Review]) -> None:
+    index = ["# Rules", "", f"{len(all_rules())} rules in {len(ZONES)} zones. Each page is generated from the "
+             "rule's code: its documentation, thresholds and sources.", ""]
+    for zone, title in ZONES.items():
+        index += [f"## {title}", "", "| Rule | Title | Severity |", "|---|---|---|"]
+        index += [f"| [{r.id}]({r.id}.md) | {r.title} | {r.severity} |" for r in all_rules().values()
+                  if r.zone == zone]
+        index.append("")
+    out.page("rules/index.md", "\n".join(index))
+    for rule in all_rules().values():
+        out.page(f"rules/{rule.id}.md", rule_page(out, rule, reviews))
+
+
+def rule_page(out: Output, rule: Rule, reviews: list[Review]) -> str:
+    lines = [f"# {rule.id}", "", f"**{rule.title}** · zone {ZONES[rule.zone]} · default severity "
+             f"{rule.severity} · needs {', '.join(f'`{k}`' for k in rule.needs) or 'results only'}"
+             + (f" · applies to {', '.join(rule.applies_to)}" if rule.applies_to else ""), ""]
+    for title, body in rule.doc.items():
+        lines += [f"## {title}", "", body[0].upper() + body[1:], ""]
+    if rule.thresholds:
+        lines += ["## Thresholds", "", "Override them in the `aeroreview` section of `mkdocs.yml`.", "",
+                  "| Name | Default | Meaning | Source | Kind |", "|---|---|---|---|---|"]
+        lines += [f"| `{t.name}` | {t.default} | {t.description} | {t.source.citation} | {t.source.kind} |"
+                  for t in rule.thresholds]
+        lines.append("")
+    lines += ["## Sources", ""] + [f"- {s.citation} (*{s.kind}*)" for s in rule.sources] + [""]
+    if rule.figure == "ahmed":
+        lines += ["## Reference", "", out.figure("ahmed", ahmed_data(ahmed_curve(out.settings, None)),
+                                                 "The Ahmed-body drag coefficient against slant angle, with the "
+                                                 "critical region near 30 deg", 1), ""]
+    flagged = [(r, f) for r in reviews for f in r.findings
+               if f.rule.id == rule.id and f.status in ("warning", "failure")]
+    lines += ["## Revisions that currently fail or warn", ""]
+    lines += [f"- {link(revision_path(r), f'{esc(r.sheet.name)} {esc(r.sheet.revision)}', 1)}: "
+              f"{badge(f.status)} {esc(f.verdict.message)}" for r, f in flagged] or ["None."]
+    return "\n".join(lines) + "\n"

@@ -1,0 +1,42 @@
+"""Page writers format what the engine computed: one lift number per revision, attachments copied by the plugin."""
+
+from __future__ import annotations
+
+import re
+
+from aeroreview.review import review_sheet
+from aeroreview.settings import Settings
+from aeroreview.sheet import load_fleet
+from aeroreview.site.figures import FigureCache
+from aeroreview.site.pages import generate
+from conftest import ROOT, VEHICLES
+
+
+def test_lift_figure_and_key_numbers_show_the_same_front_lift_with_a_reference_area(tmp_path):
+    """Bug 2: the lift figure used the frontal area while the table used the result's reference area.
+
+    Reference: lift L = 0.5 rho v^2 A_ref cl (Hucho, Aerodynamics of Road Vehicles, 1998, ch. 2),
+    as a mass L / g0 with g0 = 9.80665 m/s^2 (ISO 80000-3); A_ref = 1.5 x the frontal area here.
+    """
+    text = (VEHICLES / "tessel/r2.yaml").read_text(encoding="utf-8").split("\ngeometry:")[0]
+    text = text.replace("    cl_rear: 0.04\n", "    cl_rear: 0.04\n    reference_area: 3.36 m^2\n", 1)
+    (tmp_path / "tessel").mkdir()
+    (tmp_path / "tessel/r2.yaml").write_text(text, encoding="utf-8")
+    settings = Settings(root=ROOT)
+    review = review_sheet(load_fleet([tmp_path]).sheets[0], settings)
+    page = generate([review], settings, FigureCache(None)).files["fleet/tessel/r2.md"]
+    table = re.search(r"Lift per axle at top speed \(210 km/h\) \| front \+(\d+) kg", page)
+    figure = re.search(r"Lift per axle against speed: at 210 km/h front &#43;(\d+) kg", page)  # alt text, escaped
+    expected = 0.5 * settings.air().density * (210 / 3.6) ** 2 * 3.36 * 0.02 / 9.80665
+    assert table and figure
+    assert int(table.group(1)) == int(figure.group(1)) == round(expected)
+
+
+def test_attachments_are_copied_by_the_plugin_not_read_by_the_pages():
+    settings = Settings(root=ROOT)
+    reviews = [review_sheet(s, settings) for s in load_fleet([VEHICLES]).sheets if s.label == "tessel@r1"]
+    site = generate(reviews, settings, FigureCache(None))
+    assert site.copies, "the Tessel r1 sheet has attachments"
+    for target, source in site.copies.items():
+        assert target.startswith("fleet/tessel/files/r1/") and source.is_file()
+        assert target not in site.files
