@@ -86,7 +86,8 @@ def _cmd_rules(args) -> int:
 
 def _rule_json(rule) -> dict:
     return {"id": rule.id, "zone": rule.zone, "region": rule.region, "title": rule.title, "severity": rule.severity,
-            "needs": list(rule.needs), "applies_to": list(rule.applies_to) or "all classes",
+            "needs": list(rule.needs), "optional": list(rule.optional), "reads": list(rule.reads),
+            "applies_to": list(rule.applies_to) or "all classes",
             "thresholds": [{"name": t.name, "default": t.default, "unit": t.unit, "description": t.description,
                             "source": t.source.as_dict()} for t in rule.thresholds],
             "sources": [s.as_dict() for s in rule.sources],

@@ -14,9 +14,10 @@ from rich.console import Console
 from rich.markup import escape
 
 from aeroreview.problems import InputError, Problem
-from aeroreview.review import ADDITIVITY_NOTE, Finding, Review, failing
+from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES
 from aeroreview.settings import status_rank
+from aeroreview.track_record import pairs, summary
 
 STYLE = {"pass": "green", "advisory": "cyan", "warning": "yellow", "failure": "bold red", NOT_ASSESSED: "dim"}
 
@@ -49,7 +50,8 @@ def review_json(review: Review, fail_on: str, counted: set | None = None) -> dic
         "score": None if review.score is None else round(review.score, 1), "coverage": round(review.coverage, 3),
         "zones": {z.zone: {"score": None if z.score is None else round(z.score, 1), "coverage": round(z.coverage, 3),
                            "assessed": z.assessed, "applicable": z.applicable} for z in review.zones.values()},
-        "recoverable_counts": {"low": review.recoverable[0], "high": review.recoverable[1], "note": ADDITIVITY_NOTE},
+        "confidence": None if review.confidence is None else round(review.confidence, 3),
+        **estimate_json(review),
         "ranked_fixes": [f.rule.id for f in review.ranked_fixes],
         "key_numbers": review.key_numbers, "assumptions": review.assumptions,
         "failing": [f.rule.id for f in gate],
@@ -58,8 +60,30 @@ def review_json(review: Review, fail_on: str, counted: set | None = None) -> dic
     }
 
 
+def estimate_json(review: Review) -> dict:
+    """The combined estimate: savings in counts (positive), the Cd they lead to, the plain sum beside them."""
+    e = review.estimate
+    return {"recoverable_counts": {"low": round(e.low, 1), "mid": round(e.mid, 1), "high": round(e.high, 1),
+                                   "plain_sum_low": round(e.plain_sum_low, 1), "plain_sum_high": round(e.plain_sum_high, 1),
+                                   "floor_cd": round(e.floor_cd, 4)},
+            "cd_after": {end: round(cd, 4) for end, cd in e.cd_after.items()},
+            "floor_raised_for": list(e.raised_for), "estimate_note": ADDITIVITY_NOTE,
+            "waterfall": [{"rule": rule, "counts": round(counts, 1)} for rule, counts in e.waterfall]}
+
+
+def pairs_json(reviews: list[Review]) -> dict:
+    """The track record: predicted against measured change of Cd for every same-kind parent-child pair."""
+    found = pairs(reviews)
+    return {"pairs": [{"vehicle": p.vehicle, "from": p.parent, "to": p.child, "kind": p.kind,
+                       "measured_delta_counts": round(p.measured, 1),
+                       "predicted_delta_counts": dict(zip(("low", "mid", "high"), (round(x, 1) for x in p.predicted))),
+                       "within_range": p.within_range} for p in found],
+            "track_record": {key: value if value is None or key == "pairs" else round(value, 3 if "share" in key else 1)
+                             for key, value in summary(found).items()}}
+
+
 def as_json(reviews: list[Review], problems: list[Problem], fail_on: str, counted: set | None = None) -> dict:
-    return {"sheets": [review_json(r, fail_on, counted) for r in reviews],
+    return {"sheets": [review_json(r, fail_on, counted) for r in reviews], **pairs_json(reviews),
             "errors": [p.as_dict() for p in problems if p.level == "error"],
             "warnings": [p.as_dict() for p in problems if p.level != "error"]}
 
@@ -75,17 +99,18 @@ def as_text(data: dict, color: bool) -> str:
     for sheet in data["sheets"]:
         score = "-" if sheet["score"] is None else f"{sheet['score']:.0f}"
         console.print(f"[bold]{escape(sheet['vehicle'])}@{escape(sheet['revision'])}[/] {escape(sheet['file'])}  "
-                      f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %), recoverable "
-                      f"{sheet['recoverable_counts']['low']:g}-{sheet['recoverable_counts']['high']:g} counts")
+                      f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %, confidence {_share(sheet['confidence'])})")
+        console.print(f"  {_estimate_line(sheet)}")
         for zone, title in ZONES.items():
             items = [f for f in sheet["findings"] if f["zone"] == zone]
             if not items:
                 continue
             zone_score = sheet["zones"][zone]
-            shown = "-" if zone_score["score"] is None else f"{zone_score['score']:.0f}"
+            shown = "not scored" if zone in UNSCORED_ZONES else \
+                "-/100" if zone_score["score"] is None else f"{zone_score['score']:.0f}/100"
             passes = sum(f["status"] == "pass" for f in items)
             unassessed = [f["rule"] for f in items if f["status"] == NOT_ASSESSED]
-            console.print(f"  [bold]{title}[/] {shown}/100 (coverage {zone_score['coverage'] * 100:.0f} %), "
+            console.print(f"  [bold]{title}[/] {shown} (coverage {zone_score['coverage'] * 100:.0f} %), "
                           f"{passes} pass")
             for f in items:
                 if f["status"] in ("pass", NOT_ASSESSED):
@@ -104,10 +129,32 @@ def as_text(data: dict, color: bool) -> str:
         if sheet["failing"]:
             console.print(f"  [bold red]fails the gate:[/] {', '.join(sheet['failing'])}")
         console.print()
+    for pair in data["pairs"]:
+        predicted = pair["predicted_delta_counts"]
+        console.print(f"track record {pair['vehicle']} {pair['from']} -> {pair['to']} ({pair['kind']}): predicted "
+                      f"{predicted['low']:+g} / {predicted['mid']:+g} / {predicted['high']:+g} counts, measured "
+                      f"{pair['measured_delta_counts']:+g} ({'inside' if pair['within_range'] else 'outside'} the range)")
+    record = data["track_record"]
+    if record["pairs"]:
+        console.print(f"track record over {record['pairs']} pair(s): mean absolute error "
+                      f"{record['mean_abs_error_counts']:g} counts, bias {record['bias_counts']:+g} counts, "
+                      f"{record['within_range_share'] * 100:.0f} % inside the predicted range")
     total_failing = sum(len(s["failing"]) for s in data["sheets"])
     console.print(f"{len(data['sheets'])} revision(s) reviewed, {total_failing} finding(s) fail the gate, "
-                  f"{len(data['errors'])} input error(s); recoverable totals: {ADDITIVITY_NOTE}")
+                  f"{len(data['errors'])} input error(s); recoverable figures: {ADDITIVITY_NOTE}")
     return buffer.getvalue()
+
+
+def _share(value) -> str:
+    return "-" if value is None else f"{value * 100:.0f} %"
+
+
+def _estimate_line(sheet: dict) -> str:
+    saving, after = sheet["recoverable_counts"], sheet["cd_after"]
+    raised = f", raised for {', '.join(sheet['floor_raised_for'])}" if sheet["floor_raised_for"] else ""
+    return (f"recoverable {saving['low']:g} / {saving['mid']:g} / {saving['high']:g} counts combined (low / mid / high), "
+            f"Cd to {after['mid']:.3f} ({after['low']:.3f}-{after['high']:.3f}); floor Cd {saving['floor_cd']:.3f}"
+            f"{raised}; plain sum {saving['plain_sum_low']:g}-{saving['plain_sum_high']:g} counts (not a prediction)")
 
 
 def as_junit(data: dict, fail_on: str) -> str:

@@ -2,15 +2,17 @@
 
 A :class:`Review` holds the findings (one per applicable rule), the zone and overall
 scores with their coverage (the share of applicable rules that could be assessed: a
-sparse sheet never looks perfect), the recoverable drag counts, the fixes ranked by
-benefit, and the revision's key numbers. Every finding with an effect carries its
+sparse sheet never looks perfect) and confidence (the share of data-quality checks that
+pass), the combined estimate of what the fixes recover (:mod:`aeroreview.estimate`), the
+fixes ranked by benefit, and the revision's key numbers. Every finding with an effect carries its
 consequences in the sheet's own terms: watts at the reference speed, kWh per 100 km on
 the configured cycle, and km of range (electric) or litres per 100 km (fuel).
 
-Scores: each assessed finding earns points by status (pass 1, advisory 0.8, warning 0.4,
-failure 0); a zone's score is 100 x the mean of its points. Waived findings keep their
-real status in the score (a waiver accepts a finding, it does not fix it) but do not fail
-the gate.
+Scores weigh cost only (see :func:`aeroreview.estimate.score`): the share of the drag and
+lift within reach that unresolved findings still claim. Severity and the gate live in the
+statuses and the exit code; data-quality rules feed coverage and confidence, not the score.
+Waived findings keep their cost in the score (a waiver accepts a finding, it does not fix
+it) but do not fail the gate.
 """
 
 from __future__ import annotations
@@ -21,6 +23,7 @@ from dataclasses import dataclass, field
 from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivities
+from aeroreview.estimate import Estimate, Frame, claim_of, estimate, frame_for, score
 from aeroreview.problems import Problem
 from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict, all_rules
 from aeroreview.rules.data import CLASS_CD
@@ -29,9 +32,9 @@ from aeroreview.settings import Settings, status_rank
 from aeroreview.sheet import Fleet, Sheet, suggest
 from aeroreview.vehicle import measured_cd, vehicle_from_sheet
 
-POINTS = {"pass": 1.0, "advisory": 0.8, "warning": 0.4, "failure": 0.0}  # score weights (our convention)
-ADDITIVITY_NOTE = ("effects do not simply add: fixes interact, so the total is an upper-bound indication, "
-                   "not a prediction")
+UNSCORED_ZONES = ("data",)  # data quality feeds coverage and confidence, not the score
+ADDITIVITY_NOTE = ("effects do not simply add: fixes on one flow share its drag budget and the total saturates "
+                   "toward the class's floor; the plain sum is shown only for reference")
 
 
 @dataclass
@@ -78,14 +81,21 @@ class Review:
     zones: dict[str, ZoneScore]
     score: float | None
     coverage: float
-    recoverable: tuple[float, float]
+    estimate: Estimate
+    frame: Frame
     key_numbers: dict
+    confidence: float | None = None  # share of assessed data-quality checks that pass
     assumptions: list[str] = field(default_factory=list)
     notices: list[Problem] = field(default_factory=list)
 
     @property
+    def recoverable(self) -> tuple[float, float]:
+        """The combined low-high saving [counts] (not the plain sum)."""
+        return (round(self.estimate.low, 1), round(self.estimate.high, 1))
+
+    @property
     def ranked_fixes(self) -> list[Finding]:
-        return sorted((f for f in self.findings if f.counts), key=lambda f: (-f.benefit, f.rule.id))
+        return _ranked(self.findings)
 
     def counts_by_status(self) -> dict[str, int]:
         out = {status: 0 for status in (*STATUSES, NOT_ASSESSED)}
@@ -185,9 +195,8 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     """Review one validated sheet."""
     today = today or _dt.date.today()
     air = settings.air()
-    vehicle_class = sheet.get("vehicle.class")
     findings = {rule.id: run_rule(rule, sheet, context, severity)
-                for rule, context, severity in settings.rule_plan if rule.applies(vehicle_class)}
+                for rule, context, severity in settings.rule_plan if rule.applies(sheet)}
     notices = _apply_waivers(sheet, findings, today)
 
     context = Context({}, settings.reference_speed, air.density, air.kinematic_viscosity)
@@ -201,21 +210,35 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
         if finding.counts:
             finding.consequences = _consequences(finding.counts, per_count, power_per_count)
 
-    tally = {zone: [0.0, 0, 0] for zone in ZONES}  # points, assessed, applicable
-    for finding in findings.values():
-        entry = tally[finding.rule.zone]
-        entry[2] += 1
-        if finding.status != NOT_ASSESSED:
-            entry[0] += POINTS[finding.status]
-            entry[1] += 1
-    zones = {zone: ZoneScore(zone, 100 * points / assessed if assessed else None, assessed, applicable)
-             for zone, (points, assessed, applicable) in tally.items()}
-    points = sum(entry[0] for entry in tally.values())
-    assessed = sum(entry[1] for entry in tally.values())
-    costed = [f.counts for f in findings.values() if f.counts]
-    recoverable = (round(sum(c[0] for c in costed), 1), round(sum(c[1] for c in costed), 1))
-    return Review(sheet, list(findings.values()), zones, 100 * points / assessed if assessed else None,
-                  assessed / len(findings) if findings else 0.0, recoverable, numbers, assumptions, notices)
+    lift = numbers["lift_reference"]
+    frame = frame_for(sheet, numbers["cd"], settings.estimates, lift and (lift["cl_front"], lift["cl_rear"]))
+    ranked = _ranked(findings.values())
+    claims = [c for c in map(claim_of, ranked + [f for f in findings.values() if f not in ranked]) if c]
+    zones = {zone: _zone_score(zone, findings.values(), claims, frame) for zone in ZONES}
+    scored = [f for f in findings.values() if f.rule.zone not in UNSCORED_ZONES]
+    overall = score(claims, frame, {f.rule.region for f in scored if f.rule.region}) \
+        if any(f.status != NOT_ASSESSED for f in scored) else None
+    checks = [f for f in findings.values() if f.rule.zone in UNSCORED_ZONES and f.status != NOT_ASSESSED]
+    return Review(sheet, list(findings.values()), zones, overall,
+                  sum(f.status != NOT_ASSESSED for f in findings.values()) / len(findings) if findings else 0.0,
+                  estimate([c for c in claims if c.high > 0], frame), frame, numbers,
+                  sum(f.status == "pass" for f in checks) / len(checks) if checks else None, assumptions, notices)
+
+
+def _ranked(findings) -> list[Finding]:
+    """Costed findings by benefit, largest first (ties by rule id)."""
+    return sorted((f for f in findings if f.counts), key=lambda f: (-f.benefit, f.rule.id))
+
+
+def _zone_score(zone: str, findings: list[Finding], claims, frame: Frame) -> ZoneScore:
+    """A zone's score on the same basis as the revision's: its own claims against its regions' reach."""
+    mine = [f for f in findings if f.rule.zone == zone]
+    assessed = sum(f.status != NOT_ASSESSED for f in mine)
+    ids = {f.rule.id for f in mine}
+    value = None
+    if assessed and zone not in UNSCORED_ZONES:
+        value = score([c for c in claims if c.rule in ids], frame, {f.rule.region for f in mine if f.rule.region})
+    return ZoneScore(zone, value, assessed, len(mine))
 
 
 def waiver_problems(fleet: Fleet) -> list[Problem]:

@@ -26,6 +26,7 @@ from pathlib import Path
 from aeroreview import yamldoc
 from aeroreview.calc.air import Air, air_state
 from aeroreview.calc.cycles import cycle_by_name
+from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
 from aeroreview.problems import InputError, UsageError
 from aeroreview.rules import SEVERITIES, STATUSES, Context, Rule, all_rules
 from aeroreview.sheet import suggest
@@ -55,6 +56,7 @@ class Settings:
     cycle: str = "wltc-3b"
     fail_on: str = "failure"
     overrides: dict[str, RuleOverride] = field(default_factory=dict)
+    estimates: Model = DEFAULT_MODEL  # floors and region budgets of the combination model
     source: str = "built-in defaults"
 
     def air(self) -> Air:
@@ -108,7 +110,7 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
 
     if not isinstance(section, dict):
         raise InputError([doc.problem(path, "the aeroreview settings must be a mapping", "write key: value lines")])
-    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules")
+    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "estimates")
     for key in section:
         if key not in allowed:
             error((key,), f"unknown setting '{key}'", suggest(str(key), allowed), key=True)
@@ -157,6 +159,9 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
             error(("fail_on",), f"fail_on must be one of {', '.join(FAIL_LEVELS)}", suggest(str(section["fail_on"]),
                                                                                            FAIL_LEVELS))
     settings.overrides = _overrides(section.get("rules") or {}, error)
+    if "estimates" in section:
+        settings.estimates = model_from_mapping(section["estimates"], lambda where, *rest, **kw:
+                                                error(("estimates", *where), *rest, **kw))
     if problems:
         raise InputError(problems)
     return settings

@@ -28,10 +28,11 @@ import datetime as _dt
 import difflib
 import re
 from dataclasses import dataclass, field
-from pathlib import Path, PurePosixPath
+from pathlib import Path
 
 from aeroreview import catalogue, yamldoc
 from aeroreview.catalogue import Feature
+from aeroreview.paths import PathProblem, contained_file
 from aeroreview.problems import InputError, Problem
 from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
@@ -409,19 +410,13 @@ class _Checker:
         return None
 
     def safe_file(self, file: str, path, suffixes=IMAGE_SUFFIXES, what="attachment") -> bool:
-        """A file a sheet names must lie inside the sheet's own folder tree and exist."""
-        pure = PurePosixPath(file)
-        if "\\" in file or pure.is_absolute() or ".." in pure.parts or ":" in file:
-            self.error(path, f"{what} path '{file}' leaves the knowledge base",
-                       "give a path relative to the sheet's folder, without '..'")
-            return False
-        if pure.suffix.lower() not in suffixes:
-            kind = "an image" if what == "attachment" else "a surface file"
-            self.error(path, f"{what} '{file}' is not {kind}", f"give one of {', '.join(suffixes)}")
-            return False
-        target = self.folder / pure
-        if not target.is_file():
-            self.error(path, f"{what} '{file}' does not exist", f"looked for {target}")
+        """A file a sheet names must be plainly named, lie inside the sheet's folder (links
+        resolved) and exist; :func:`aeroreview.paths.contained_file` decides."""
+        kind = "an image" if what == "attachment" else "a surface file"
+        try:
+            contained_file(self.folder, file, suffixes, what, kind)
+        except PathProblem as problem:
+            self.error(path, str(problem), problem.hint)
             return False
         return True
 
