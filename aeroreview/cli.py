@@ -15,7 +15,7 @@ from pathlib import Path
 
 from aeroreview import __version__, calc_cli, report, results_cli, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
-from aeroreview.problems import InputError, UsageError
+from aeroreview.problems import InputError, UsageError, clean
 from aeroreview.rules import REGIONS, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
 from aeroreview.sheet import load_fleet, sheet_files, suggest
@@ -233,7 +233,7 @@ def main(argv: list[str] | None = None) -> int:
         args = build_parser().parse_args(argv)
         return args.run(args)
     except UsageError as error:
-        print(f"error: {error}", file=sys.stderr)
+        print(f"error: {clean(error)}", file=sys.stderr)
         if debug:
             raise
         return EXIT_INPUT
@@ -249,6 +249,6 @@ def main(argv: list[str] | None = None) -> int:
     except Exception as error:  # noqa: BLE001 - last line of defence: no traceback for users
         if debug:
             raise
-        print(f"internal error: {type(error).__name__}: {error}\n"
+        print(f"internal error: {type(error).__name__}: {clean(error)}\n"
               "this is a bug in aeroreview; run again with --debug and report the traceback", file=sys.stderr)
         return EXIT_INPUT
