@@ -243,3 +243,41 @@ def convergence_reasons(stats: dict[str, dict], settled_rows: int, limits: dict[
             reasons.append(f"{key}: drift {s['drift_per_1000'] / 0.001:+.2f} counts per 1000 iterations, "
                            f"over {limits['drift'] / 0.001:g}")
     return reasons
+
+
+CORRELATION_SOURCE = Source("full-vehicle CFD and full-scale tunnel drag of one configuration usually agree within "
+                            "about 5 to 10 counts; larger gaps point at a configuration or set-up mismatch (wheels, "
+                            "ground, cooling flow, blockage correction); recalled", "from memory")
+
+
+@rule("data.cfd-tunnel-correlation", "CFD and tunnel results of one revision agree", "warning", needs=(),
+      thresholds=(Threshold("difference", "0.010", "", "Cd difference between a CFD and a full-scale tunnel result "
+                            "of one revision that calls for a correlation study (10 counts)", CORRELATION_SOURCE),),
+      sources=(CORRELATION_SOURCE,))
+def cfd_tunnel_correlation(sheet, ctx):
+    """
+    What it checks: the largest drag difference between a CFD result and a full-scale tunnel
+    result of the same revision.
+
+    Why it matters: when simulation and tunnel disagree, at least one of them does not
+    represent the car, and a fix costed on the wrong one can be worth nothing on the road.
+
+    How to fix: run a correlation study: match the configurations (wheel rotation, ground
+    simulation, cooling flow, ride height, mirrors), the reference area and the blockage
+    correction, then record both results again.
+
+    Known limits: model-scale tunnel results are left out (their Reynolds number differs);
+    the threshold is a recalled typical agreement, not a standard.
+    """
+    cfd = [r for r in sheet.results if r.kind == "cfd"]
+    tunnel = [r for r in sheet.results if r.kind == "tunnel" and r.scale == 1.0]
+    if not cfd or not tunnel:
+        return not_assessed("needs a CFD and a full-scale tunnel result of the revision",
+                            missing=("results[].kind: cfd", "results[].kind: tunnel"))
+    gap, a, b = max((abs(c.cd - t.cd), c, t) for c in cfd for t in tunnel)
+    measured = f"|Cd CFD - Cd tunnel| = {gap / 0.001:.1f} counts ({a.label} vs {b.label})"
+    limit = f"<= {ctx['difference'] / 0.001:g} counts"
+    if gap > ctx["difference"]:
+        return major("CFD and tunnel disagree: correlate them before costing fixes on either",
+                     measured=measured, limit=limit)
+    return passed("CFD and tunnel agree", measured=measured, limit=limit)
