@@ -27,13 +27,25 @@ def column_map(text: str) -> dict[str, str]:
     return out
 
 
-def _contained(file: str, sheet: str) -> None:
-    """A file a sheet will name must lie inside the sheet's folder (symlinks resolved)."""
-    folder = Path(sheet).resolve().parent
-    target = Path(file).resolve()
-    if folder not in target.parents:
-        raise UsageError(f"{file}: lies outside the folder of {sheet} ({folder}); a sheet may only name files "
-                         "inside its own folder: copy the file there first")
+TABLE_SUFFIXES = (".dat", ".csv", ".txt", ".tsv", ".out")  # what solvers and tunnels name their tables
+MESH_SUFFIXES = (".vtu", ".vtk", ".ply", ".msh", ".xdmf")  # surface formats meshio reads that carry fields
+
+
+def named_by_sheet(file: str, sheet: str, suffixes: tuple[str, ...]) -> str:
+    """``file`` as the sheet will name it: relative to the sheet's folder, and inside it
+    (:func:`aeroreview.paths.contained_file` decides: links resolved, safe names)."""
+    import os
+
+    from aeroreview.paths import PathProblem, contained_file
+
+    folder = Path(sheet).absolute().parent
+    relative = Path(os.path.relpath(Path(file).absolute(), folder)).as_posix()
+    try:
+        contained_file(folder, relative, suffixes, "result file", "a table or surface meshio reads")
+    except PathProblem as problem:
+        raise UsageError(f"{file}: {problem} (a sheet may only name files inside its own folder); {problem.hint}") \
+            from None
+    return relative
 
 
 def _print(data: dict, text: str, as_json: bool) -> None:
@@ -44,7 +56,7 @@ def cmd_history(args) -> int:
     from aeroreview.results import history
 
     if args.sheet:
-        _contained(args.file, args.sheet)
+        named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES)
     result = history.settle(history.read_history(args.file, column_map(args.columns or "")))
     _print(history.as_json(result), history.as_text(result), args.json)
     return 0
@@ -74,7 +86,7 @@ def cmd_yaw(args) -> int:
     from aeroreview.results import yaw
 
     if args.sheet:
-        _contained(args.file, args.sheet)
+        named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES)
     sweep = yaw.read_yaw(args.file, column_map(args.columns or ""), args.speed, args.wind)
     _print(yaw.as_json(sweep), yaw.as_text(sweep), args.json)
     return 0
@@ -85,7 +97,7 @@ def _sheet(args):
         return None
     from aeroreview.sheet import load_sheet
 
-    _contained(args.file, args.sheet)
+    named_by_sheet(args.file, args.sheet, MESH_SUFFIXES)
     return load_sheet(args.sheet)
 
 
