@@ -13,19 +13,18 @@ from __future__ import annotations
 import csv
 import io
 import math
-import shutil
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue, yamldoc
+from aeroreview import catalogue
 from aeroreview.calc.geometry.profile import Measurement, measure_centreline, plan_taper
 from aeroreview.calc.geometry.projection import projected_area
 from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_mesh
 from aeroreview.problems import InputError, Problem, UsageError
-from aeroreview.sheet import from_document
+from aeroreview.sheetedit import edit_sheet
 from aeroreview.units import from_si
 
 MESH_SUFFIXES = (".stl", ".obj", ".ply")
@@ -350,60 +349,9 @@ def as_text(result: Result, source: str) -> str:
 
 
 # -- merging into a sheet -------------------------------------------------------------
-def _round_trip(text: str):
-    """A ruamel.yaml round-trip loader/dumper that writes the sheet's own indentation back."""
-    import re
-
-    from ruamel.yaml import YAML
-
-    yaml = YAML()
-    yaml.preserve_quotes = True
-    yaml.width = 4096  # never fold a long line the user wrote on one
-    nested = re.search(r"^\S[^\n]*:[ \t]*\n( +)[^ \n-]", text, re.M)
-    listed = re.search(r"^( *)[^ \n#-][^\n]*:[ \t]*\n( *)- ", text, re.M)
-    mapping = len(nested.group(1)) if nested else 2
-    offset = len(listed.group(2)) - len(listed.group(1)) if listed else 0
-    yaml.indent(mapping=mapping, sequence=offset + 2, offset=offset)
-    return yaml
-
-
-def edit_sheet(sheet_path: str | Path, edit) -> str | None:
-    """Apply ``edit(data)`` to the sheet's round-trip YAML and write it back, keeping comments.
-
-    ``edit`` changes the ruamel document in place and returns True when it replaced a value
-    the user wrote; the original is then kept as a backup, whose path is returned. Nothing is
-    written when the edited sheet would not validate.
-    """
-    path = Path(sheet_path)
-    text = yamldoc.read_text(path)
-    yaml = _round_trip(text)
-    try:
-        data = yaml.load(text)
-    except Exception as error:  # noqa: BLE001 - ruamel raises many parser types
-        raise InputError([Problem(str(path), 1, 1, f"cannot read the sheet: {error}", "fix the YAML first")]) from None
-    if not isinstance(data, dict):
-        raise InputError([Problem(str(path), 1, 1, "the sheet is not a mapping", "start with `id: ...`")])
-    replaced = edit(data)
-    buffer = io.StringIO()
-    yaml.dump(data, buffer)
-    new_text = buffer.getvalue()
-    from_document(yamldoc.parse(new_text, str(path)), path.parent, allow_placeholders=True)  # raises InputError: nothing written
-    backup = None
-    if replaced:
-        backup = path.with_name(path.name + ".bak")
-        number = 1
-        while backup.exists():
-            backup = path.with_name(f"{path.name}.bak{number}")
-            number += 1
-        shutil.copy2(path, backup)
-    temporary = path.with_name(f".{path.name}.tmp")
-    temporary.write_text(new_text, encoding="utf-8")
-    temporary.replace(path)
-    return None if backup is None else str(backup)
-
-
 def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwrite: bool = False) -> dict:
-    """Write the measured features into a sheet, keeping comments and the user's values.
+    """Write the measured features into a sheet, keeping comments and the user's values
+    (through :func:`aeroreview.sheetedit.edit_sheet`, which keeps everything else too).
 
     Returns {"added": [...], "kept": [...], "replaced": [...], "backup": path or None}.
     Nothing is written when the merged sheet would not validate.
@@ -412,8 +360,8 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
 
     report = {"added": [], "kept": [], "replaced": [], "backup": None}
 
-    def add_features(data) -> bool:
-        if not isinstance(data.get("features"), dict):
+    def merge(data) -> tuple[dict, bool]:
+        if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
             raise InputError([Problem(str(sheet_path), 1, 1, "the sheet has no 'features' mapping", "add `features:`")])
         features = data["features"]
         for key, m in result.measured().items():
@@ -422,17 +370,15 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
             value, unit = _shown(m)
             entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
             entry.fa.set_flow_style()
-            if key in features:
-                if not overwrite:
-                    report["kept"].append(key)
-                    continue
-                report["replaced"].append(key)
-            else:
-                report["added"].append(key)
+            if key in features and not overwrite:
+                report["kept"].append(key)
+                continue
+            report["replaced" if key in features else "added"].append(key)
             features[key] = entry
-        return bool(report["replaced"])
+        return report, bool(report["replaced"])
 
-    report["backup"] = edit_sheet(sheet_path, add_features)
+    edit = edit_sheet(sheet_path, merge)
+    report["backup"] = None if edit.backup is None else str(edit.backup)
     return report
 
 
