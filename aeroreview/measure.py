@@ -22,7 +22,8 @@ import numpy as np
 from aeroreview import catalogue
 from aeroreview.calc.geometry.profile import Measurement, measure_centreline, plan_taper
 from aeroreview.calc.geometry.projection import projected_area
-from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_mesh
+from aeroreview.calc.geometry.mesh import edge_check, face_areas, merge_vertices
+from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_levels, slice_mesh
 from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.sheetedit import edit_sheet
 from aeroreview.units import from_si
@@ -103,7 +104,9 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            mesh = trimesh.load(str(path), force="mesh", process=False)
+            mesh = trimesh.load(str(path), process=False)  # a Trimesh, or a Scene when the file holds several
+            if isinstance(mesh, trimesh.Scene):
+                mesh = mesh.to_mesh()  # one mesh; skipped for a single body, whose copy it would be
     except Exception as error:  # noqa: BLE001 - trimesh raises many types on bad files
         raise MeasureError(f"{name}: not a readable mesh ({type(error).__name__}: {error})") from None
     if not isinstance(mesh, trimesh.Trimesh) or len(mesh.faces) == 0:
@@ -116,24 +119,25 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
     vertices = np.asarray(mesh.vertices, dtype=float)
     if not np.isfinite(vertices).all():
         raise MeasureError(f"{name}: the mesh has vertices that are not finite numbers")
-    areas = mesh.area_faces
-    if (areas <= 1e-18).any():
-        notes.append(f"warning: {int((areas <= 1e-18).sum())} degenerate faces (measured anyway)")
-    mesh.merge_vertices()
-    if len(mesh.vertices) < count and suffix != ".stl":  # STL always repeats vertices; that is its format
-        notes.append(f"warning: {count - len(mesh.vertices)} duplicated vertices (merged, measured anyway)")
-    if not mesh.is_watertight:
+    merged, faces = merge_vertices(vertices, faces)
+    degenerate = int((face_areas(merged, faces) <= 1e-18).sum())
+    if degenerate:
+        notes.append(f"warning: {degenerate} degenerate faces (measured anyway)")
+    if len(merged) < count and suffix != ".stl":  # STL always repeats vertices; that is its format
+        notes.append(f"warning: {count - len(merged)} duplicated vertices (merged, measured anyway)")
+    watertight, consistent = edge_check(faces)
+    if not watertight:
         notes.append("warning: the surface is not watertight (measured anyway; sections may show gaps)")
-    extent = float(np.ptp(vertices, axis=0).max())
+    extent = max(float(np.ptp(vertices[:, axis])) for axis in range(3))
     scale, unit, note = _scale_for(extent, units)
     _check_size(extent * scale, name)
-    points = _frame(np.asarray(mesh.vertices) * scale, nose, up)
+    points = _frame(merged * scale, nose, up)
     base = points[:, 2].min() if ground is None else ground * scale
     points[:, 2] -= base
     points[:, 0] -= points[:, 0].min()
     ground_note = "ground plane at the lowest point" if ground is None else f"ground plane at z = {ground:g} {unit}"
-    return Surface(points, np.asarray(mesh.faces), units=unit, units_note=f"{note}; {ground_note}", notes=notes,
-                   source=path.name, closed=bool(mesh.is_watertight and mesh.is_winding_consistent))
+    return Surface(points, faces, units=unit, units_note=f"{note}; {ground_note}", notes=notes,
+                   source=path.name, closed=consistent)
 
 
 _PLY_SIZES = {"char": 1, "uchar": 1, "int8": 1, "uint8": 1, "short": 2, "ushort": 2, "int16": 2, "uint16": 2,
@@ -261,8 +265,8 @@ def measure(surface: Surface, heights: list[float] | None = None) -> Result:
     heights = heights or [h for h in np.arange(SECTION_STEP, 0.95 * top, SECTION_STEP)]  # below the roof skin
     belt = 0.55 * top
     window = min(0.3, 0.1 * length)
-    for h in sorted(set([round(float(h), 4) for h in heights] + [round(belt, 4)])):
-        cut = slice_mesh(v, f, 2, h)
+    levels = sorted(set([round(float(h), 4) for h in heights] + [round(belt, 4)]))
+    for h, cut in zip(levels, slice_levels(v, f, 2, levels)):
         if len(cut) < 10:
             continue
         plan = outline(_polyline_points(cut[:, :, [0, 1]], length), bins=600)
