@@ -62,9 +62,10 @@ def backlight_angle(sheet, ctx):
     unstable, speed-dependent behaviour. A large roof-to-backlight radius keeps the flow
     attached and weakens the switch.
 
-    How to fix: move the backlight angle out of the 26-34 deg region (below about 21 deg
-    for an attached fastback flow, or above 34 deg for a clean notchback or squareback
-    separation), or enlarge the roof-to-backlight radius (r / sqrt(A) of 0.15 or more) and
+    How to fix: move the backlight angle out of the critical region from {critical_low} to
+    {critical_high} (below about {rising_low} for an attached fastback flow, or above
+    {critical_high} for a clean notchback or squareback separation), or enlarge the
+    roof-to-backlight radius (r / sqrt(A) of {generous_radius} or more) and
     add a defined separation edge at the end of the backlight or a decklid kick-up.
 
     Known limits: the Ahmed body is a simple bluff body; a production car's C-pillar shape,
@@ -85,7 +86,8 @@ def backlight_angle(sheet, ctx):
     beyond = min(max(high + 1, 35.0), SQUARE_BACK_ANGLE)  # past the region, on the published curve
     reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(beyond))
     step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
-    steadied = 1 - 0.6 * min(1.0, (ratio or 0.0) / ctx["generous_radius"])  # the radius lowers the estimate too
+    share = 1.0 if generous else (ratio / ctx["generous_radius"] if ratio else 0.0)  # a ratio below the limit
+    steadied = 1 - 0.6 * share  # the radius lowers the estimate too
     counts = counts_range(200 * (step - spread) * steadied, 600 * (step + spread) * steadied)
     details = {"ahmed_step": round(step, 4), "ahmed_uncertainty": spread, "radius_factor": round(steadied, 3)}
     if low <= degrees <= high:
