@@ -31,12 +31,14 @@ from pathlib import Path
 
 from aeroreview import catalogue, sections, yamldoc
 from aeroreview.names import close_match
+from aeroreview.paths import contained_file
 from aeroreview.problems import InputError, Problem
 from aeroreview.sections import MAX_TEXT, RESULT_KINDS, Attachment, Geometry, Result, Waiver, YawPoint
-from aeroreview.sheetcheck import Checker, Value, combinations, is_placeholder
+from aeroreview.sheetcheck import IMAGE_SUFFIXES, Checker, Value, combinations, is_placeholder
 
 __all__ = ["MAX_TEXT", "RESULT_KINDS", "Attachment", "Geometry", "Result", "Sheet", "Value", "Waiver", "YawPoint",
-           "check_document", "from_document", "is_placeholder", "load_fleet", "load_sheet", "sheet_files"]
+           "attachment_problems", "check_document", "from_document", "is_placeholder", "load_fleet", "load_sheet",
+           "sheet_files"]
 
 SLUG = re.compile(sections.SLUG)
 @dataclass
@@ -131,6 +133,20 @@ def load_sheet(path: Path | str, display: str | None = None) -> Sheet:
     path = Path(path)
     doc = yamldoc.load(path, display or str(path))
     return from_document(doc, path.parent)
+
+
+def attachment_problems(sheets, limit: int) -> list[Problem]:
+    """Attachments larger than ``limit`` bytes (the site copies each one into every build)."""
+    problems = []
+    for sheet in sheets:
+        for attachment in sheet.attachments:
+            real = contained_file(Path(sheet.path).parent, attachment.file, IMAGE_SUFFIXES, "attachment")
+            size = real.stat().st_size
+            if size > limit:
+                problems.append(Problem(sheet.path, attachment.line, 1, f"attachment '{attachment.file}' is "
+                                        f"{size:,} bytes, over the limit of {limit:,}",
+                                        "make it smaller, or raise max_attachment_mb in the settings"))
+    return problems
 
 
 @dataclass

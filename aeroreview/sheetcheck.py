@@ -26,7 +26,10 @@ from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 if TYPE_CHECKING:
     from aeroreview.sheet import Sheet
 
-IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".svg", ".webp", ".gif")
+IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".webp", ".gif")  # raster only: an SVG can carry script
+# The first bytes of each raster format (its specification's signature), so a script-bearing
+# SVG or HTML file renamed .png is refused too.
+IMAGE_SIGNATURES = (b"\x89PNG\r\n\x1a\n", b"\xff\xd8\xff", b"GIF87a", b"GIF89a", b"RIFF")
 SURFACE_SUFFIXES = (".stl", ".obj", ".ply", ".csv")
 ISO_DATE = re.compile(r"^\d{4}-\d{2}-\d{2}$")  # a quoted date, as JSON and editors write it
 # A value still to be filled in: the template writes ``<e.g. 4.8 m>``, so no unfilled
@@ -286,7 +289,7 @@ class Checker:
         for path, raw in self.items(data, ("attachments",), "attachments"):
             values = self.fields(sections.ATTACHMENT, raw, path)
             if values["file"] and self.safe_file(values["file"], path + ("file",)):
-                out.append(Attachment(**values))
+                out.append(Attachment(**values, line=self.doc.where(path + ("file",))[0]))
         return out
 
     def geometry(self, data) -> Geometry | None:
@@ -316,10 +319,17 @@ class Checker:
         resolved) and exist; :func:`aeroreview.paths.contained_file` decides."""
         kind = "an image" if what == "attachment" else "a surface file"
         try:
-            contained_file(self.folder, file, suffixes, what, kind)
+            real = contained_file(self.folder, file, suffixes, what, kind)
         except PathProblem as problem:
             self.error(path, str(problem), problem.hint)
             return False
+        if what == "attachment":
+            with real.open("rb") as stream:
+                head = stream.read(12)
+            if not head.startswith(IMAGE_SIGNATURES) or head.startswith(b"RIFF") and head[8:12] != b"WEBP":
+                self.error(path, f"attachment '{file}' is not a PNG, JPEG, GIF or WebP image inside",
+                           "export it as a raster image; SVG and other documents are not published")
+                return False
         return True
 
 
