@@ -198,6 +198,11 @@ class Rule:
     def fix(self) -> str:
         return self.doc.get("How to fix", "")
 
+    @property
+    def examples(self) -> list[tuple[str, str]]:
+        """The docstring's examples: (status, YAML fragment changing the demo's clean revision)."""
+        return parse_examples(self.check.__doc__ or "")
+
     def fix_for(self, thresholds: dict[str, float]) -> str:
         """How to fix, with the team's thresholds (SI, as in a rule's context) in place of ``{name}``."""
         return self.with_thresholds(parse_doc(self.check.__doc__ or "").get("How to fix", ""), thresholds)
@@ -234,14 +239,27 @@ class Rule:
 
 
 _SECTION = re.compile(r"^(%s):\s*" % "|".join(DOC_SECTIONS), re.M)
+# After the sections, "Examples (...):" lists YAML fragments with the status each must give.
+_EXAMPLES = re.compile(r"^Examples\b[^\n]*:\s*$", re.M)
+_EXAMPLE = re.compile(r"^\s*(fails \((advisory|warning|failure)\)|passes):\s*", re.M)
 
 
 _THRESHOLD_NAME = re.compile(r"\{([a-z_]+)\}")
 
 
+def parse_examples(text: str) -> list[tuple[str, str]]:
+    """(status it must give, YAML fragment) of each line of a rule docstring's Examples block."""
+    parts = _EXAMPLES.split(inspect.cleandoc(text), 1)
+    if len(parts) < 2:
+        return []
+    found = _EXAMPLE.split(parts[1])
+    return [("pass" if label == "passes" else status, " ".join(fragment.split()))
+            for label, status, fragment in zip(found[1::3], found[2::3], found[3::3])]
+
+
 def parse_doc(text: str) -> dict[str, str]:
     """Split a rule docstring into its sections (``What it checks: ...`` and so on)."""
-    text = inspect.cleandoc(text)
+    text = _EXAMPLES.split(inspect.cleandoc(text), 1)[0]
     parts = _SECTION.split(text)
     sections = {}
     for heading, body in zip(parts[1::2], parts[2::2]):
