@@ -308,6 +308,10 @@ def cfd_tunnel_correlation(sheet, ctx):
 
     Known limits: model-scale tunnel results are left out (their Reynolds number differs);
     the threshold is a recalled typical agreement, not a standard.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: rans, cd: 0.232}, {kind: tunnel, label: full scale, cd: 0.250}]}
+        passes: {results: [{kind: cfd, label: rans, cd: 0.232}, {kind: tunnel, label: full scale, cd: 0.236}]}
     """
     cfd = [r for r in sheet.results if r.kind == "cfd"]
     tunnel = [r for r in sheet.results if r.kind == "tunnel" and r.scale == 1.0]
