@@ -46,6 +46,7 @@ class Finding:
     verdict: Verdict
     waiver: dict | None = None  # {"status": "active"|"expired", "reason", "by", "expires"}
     consequences: dict | None = None
+    fix: str = ""  # how to fix, with the thresholds the rule ran with
     calibration: dict | None = None  # set when a team calibration re-costed the fix (aeroreview.calibration)
 
     @property
@@ -130,7 +131,7 @@ def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str, calibrat
         verdict = Verdict(NOT_ASSESSED, f"not assessed: missing {', '.join(missing)}", missing=missing)
     else:
         verdict = rule.check(sheet, context)
-    finding = Finding(rule, _status(verdict.level, severity), severity, verdict)
+    finding = Finding(rule, _status(verdict.level, severity), severity, verdict, fix=rule.fix_for(context.thresholds))
     if calibrated:
         recost(finding, sheet, context, calibrated)
     return finding

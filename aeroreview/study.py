@@ -25,7 +25,7 @@ import pandas as pd
 
 from aeroreview import catalogue
 from aeroreview.problems import InputError, Problem, UsageError
-from aeroreview.sheet import suggest
+from aeroreview.names import suggest
 from aeroreview.units import UnitProblem, describe_dimension, to_si
 
 MAX_STUDY_BYTES = 64 * 1024 * 1024  # a parametric study is thousands of rows, not gigabytes (our convention)
