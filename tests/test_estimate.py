@@ -236,3 +236,29 @@ def test_summary_statistics_by_hand():
     assert [p.within_range for p in found] == [False, True]
     assert summary(found) == {"pairs": 2, "mean_abs_error_counts": pytest.approx(3.0), "bias_counts": pytest.approx(1.0),
                               "within_range_share": 0.5}
+
+
+def test_site_pages_show_the_combined_figures_and_the_track_record():
+    """Pages format the engine's numbers: the combined estimate, the waterfall floor, predicted against measured."""
+    from aeroreview.site.figures import FigureCache
+    from aeroreview.site.pages import generate
+    from conftest import ROOT
+
+    settings = Settings(root=ROOT)
+    reviews = [review_sheet(s, settings) for s in load_fleet([VEHICLES]).sheets]
+    site = generate(reviews, settings, FigureCache(None))
+    record = site.files["fleet/track-record.md"]
+    assert "3 pair(s): mean absolute error" in record and "figures/track-record-" in record
+    for vehicle in ("tessel", "quillon", "dravik"):
+        assert f"[{vehicle}](../fleet/{vehicle}/index.md) | r1 | r2 |" in record
+    diff = site.files["fleet/tessel/r1-to-r2.md"]
+    assert "## Predicted against measured" in diff and "-64.4 / -61.7 / -50.0 counts" in diff
+    assert "-57.0 counts, inside the predicted range" in diff
+    page = site.files["fleet/tessel/r1.md"]
+    assert "| Recoverable drag, combined | 65.2 counts (low 51.9, high 68.4) |" in page
+    assert "| Plain sum of the findings | 94.1-283.9 counts (plain sum, not a prediction" in page
+    assert "| 65.2 (51.9-68.4) |" in site.files["fleet/tessel/index.md"]
+    assert "| 14.4 (6.6-20.9) |" in site.files["fleet/index.md"]  # the Quillon's latest revision, r2
+    waterfall = next(v for k, v in site.files.items() if k.startswith("figures/waterfall-")
+                     and b"0.297 to about 0.232" in v)
+    assert b"floor of the class: Cd 0.209" in waterfall
