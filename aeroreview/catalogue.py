@@ -47,7 +47,7 @@ REVIEW_ZONES: dict[str, str] = {
 }
 ALL_ZONES: dict[str, str] = {**ZONES, **REVIEW_ZONES}
 
-VEHICLE_CLASSES = ("sedan", "fastback", "hatchback", "estate", "suv", "pickup", "van", "sports")
+VEHICLE_CLASSES = ("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "pickup", "van", "sports")
 
 COMMON = "common practice"
 MEMORY = "from memory (Hucho, Aerodynamics of Road Vehicles, 4th ed., 1998; not checked page by page)"
@@ -69,6 +69,7 @@ class Feature:
     required: bool = False
     example: object = None  # a value shown in the template (required features only)
     integer: bool = False
+    without_rule: str = ""  # why the feature is kept though no rule reads it (the review or calc uses it)
 
     @property
     def zone(self) -> str:
@@ -83,6 +84,8 @@ class Feature:
             return "one of: " + ", ".join(self.choices)
         if self.kind == "flag":
             return "true or false"
+        if self.integer and not self.unit:
+            return "count"
         return self.unit or "fraction"
 
     def typical_text(self) -> str:
@@ -105,6 +108,10 @@ def _flag(key, description, how) -> Feature:
     return Feature(key, "flag", description, how)
 
 
+_ROAD_LOAD = "vehicle data: the review's road-load, energy and range consequences use it"
+_GEOMETRY = "vehicle data: the review's lift per axle and the site's figures use it"
+
+
 FEATURES: tuple[Feature, ...] = (
     # -- vehicle ---------------------------------------------------------------------
     _choice("vehicle.class", VEHICLE_CLASSES,
@@ -121,11 +128,12 @@ FEATURES: tuple[Feature, ...] = (
        "Overall height at curb mass.", "Highest z above the ground plane at curb ride height, roof antenna excluded.",
        required=True, example=1.45),
     _q("dimensions.wheelbase", "m", (0.5, 8.0), (2.3, 3.3),
-       "Distance between front and rear axle centres.", "x distance between wheel centres on the same side."),
+       "Distance between front and rear axle centres.", "x distance between wheel centres on the same side.",
+       without_rule=_GEOMETRY),
     _q("dimensions.track_front", "m", (0.5, 3.0), (1.35, 1.75),
-       "Front track.", "y distance between the front tyre contact-patch centres."),
+       "Front track.", "y distance between the front tyre contact-patch centres.", without_rule=_GEOMETRY),
     _q("dimensions.track_rear", "m", (0.5, 3.0), (1.35, 1.75),
-       "Rear track.", "y distance between the rear tyre contact-patch centres."),
+       "Rear track.", "y distance between the rear tyre contact-patch centres.", without_rule=_GEOMETRY),
     _q("dimensions.ground_clearance", "mm", (0.0, 800.0), (90.0, 250.0),
        "Minimum ground clearance of the main underbody plane at curb ride height.",
        "Smallest z of the flat underbody between the axles; local parts (exhaust, jacking points) excluded."),
@@ -140,30 +148,34 @@ FEATURES: tuple[Feature, ...] = (
        "Share of the curb mass carried by the front axle.", "Front axle load / total load on a level scale; 0.52 or '52 %'."),
     _q("mass.rotating_mass_factor", "", (1.0, 1.3), (1.02, 1.08),
        "Equivalent-mass factor for rotating inertia (wheels, driveline).",
-       "1 + (rotational inertia reduced to the wheel) / (m r^2); 1.03 is a usual EV value.", MEMORY),
+       "1 + (rotational inertia reduced to the wheel) / (m r^2); 1.03 is a usual EV value.", MEMORY,
+       without_rule=_ROAD_LOAD),
     # -- powertrain ------------------------------------------------------------------
     _choice("powertrain.kind", ("electric", "combustion", "hybrid"),
             "Energy source; selects battery (kWh, km of range) or fuel (L per 100 km) consequences.",
             "From the program brief.", required=True, example="electric"),
     _q("powertrain.battery_usable", "kWh", (1.0, 400.0), (40.0, 120.0),
-       "Usable battery energy (net, as the range estimate uses it).", "From the battery specification, net of buffers."),
+       "Usable battery energy (net, as the range estimate uses it).", "From the battery specification, net of buffers.",
+       without_rule=_ROAD_LOAD),
     _choice("powertrain.fuel", ("petrol", "diesel"),
             "Fuel for combustion and hybrid vehicles; sets the heating value used for L per 100 km.",
-            "From the engine specification."),
+            "From the engine specification.", without_rule=_ROAD_LOAD),
     _q("powertrain.fuel_tank", "L", (5.0, 400.0), (35.0, 90.0),
-       "Usable fuel tank volume.", "From the fuel system specification."),
+       "Usable fuel tank volume.", "From the fuel system specification.", without_rule=_ROAD_LOAD),
     _q("powertrain.drivetrain_efficiency", "", (0.3, 1.0), (0.80, 0.95),
        "Mean efficiency from battery (or engine shaft) to the wheels when driving.",
-       "Cycle-average of wheel energy / battery (or crank) energy; inverter, motor, gear and bearings included.", MEMORY),
+       "Cycle-average of wheel energy / battery (or crank) energy; inverter, motor, gear and bearings included.", MEMORY,
+       without_rule=_ROAD_LOAD),
     _q("powertrain.engine_efficiency", "", (0.05, 0.6), (0.22, 0.40),
        "Mean engine efficiency, fuel energy to crank, for combustion vehicles.",
-       "Cycle-average brake efficiency from the engine map.", MEMORY),
+       "Cycle-average brake efficiency from the engine map.", MEMORY, without_rule=_ROAD_LOAD),
     _q("powertrain.regen_efficiency", "", (0.0, 1.0), (0.0, 0.85),
        "Share of the braking energy at the wheels that returns to the battery.",
-       "0 for a vehicle without regenerative braking; cycle-average, friction braking included.", MEMORY),
+       "0 for a vehicle without regenerative braking; cycle-average, friction braking included.", MEMORY,
+       without_rule=_ROAD_LOAD),
     _q("powertrain.rolling_resistance", "", (0.001, 0.05), (0.006, 0.012),
        "Rolling resistance coefficient Crr of the tyres fitted.", "From the tyre label class or a coast-down fit (F0 / (m g)).",
-       MEMORY),
+       MEMORY, without_rule=_ROAD_LOAD),
     _q("powertrain.top_speed", "km/h", (20.0, 500.0), (130.0, 260.0),
        "Maximum speed (limited or natural).", "From the performance specification."),
     # -- front -----------------------------------------------------------------------
@@ -173,6 +185,9 @@ FEATURES: tuple[Feature, ...] = (
     _q("front.corner_radius", "mm", (0.0, 1000.0), (50.0, 300.0),
        "Radius of the front corners in the plan view (bumper to side).",
        "Fit a circle to the horizontal section at bumper height over the corner."),
+    _q("front.hood_edge_height", "mm", (100.0, 2500.0), (550.0, 900.0),
+       "Height above ground of the front upper edge, where the front face turns into the hood, on the centreline.",
+       "z of the middle of the front upper edge radius on the centreline section, curb ride height."),
     _q("front.stagnation_height", "mm", (50.0, 2000.0), (300.0, 700.0),
        "Height of the forwardmost point of the nose above the ground.",
        "z of the point with the smallest x on the centreline section."),
@@ -257,8 +272,14 @@ FEATURES: tuple[Feature, ...] = (
     _q("underbody.diffuser_length", "mm", (0.0, 3000.0), (200.0, 900.0),
        "Length of the diffuser ramp.", "x extent of the upswept rear underbody."),
     _q("underbody.diffuser_exposed_parts", "", (0, 50), (0, 5),
-       "Number of parts standing in the diffuser flow (exhaust, tow eye, suspension links, spare-wheel well).",
+       "Count (a whole number) of the parts standing in the diffuser flow (exhaust, tow eye, "
+       "suspension links, spare-wheel well).",
        "Count the parts that protrude below the diffuser surface when viewed from below.", integer=True),
+    _q("underbody.diffuser_end_step", "mm", (0.0, 400.0), (0.0, 60.0),
+       "Height of the vertical step from the diffuser's trailing edge up to the lower edge of the rear base "
+       "(bumper); 0 when the diffuser runs out into the base edge.",
+       "z difference on the centreline section between the diffuser trailing edge and the lowest point of the "
+       "base above it."),
     _q("underbody.pitch", "deg", (-5.0, 5.0), (-1.0, 1.0),
        "Static pitch of the underbody, positive nose-down.",
        "Angle of the line from the front to the rear underbody datum points at curb ride height."),
@@ -267,6 +288,9 @@ FEATURES: tuple[Feature, ...] = (
        "Rim diameter.", "Nominal rim size from the wheel specification."),
     _q("wheels.tyre_width", "mm", (100.0, 400.0), (195.0, 285.0),
        "Nominal tyre section width.", "From the tyre designation (e.g. 235 in 235/45 R19)."),
+    _choice("wheels.tyre_shoulder", ("rounded", "square"),
+            "Shape of the tyre shoulder (tread-to-sidewall transition) of the tyres fitted.",
+            "From the tyre drawing: rounded when the shoulder radius exceeds about 10 mm."),
     _q("wheels.rim_openness", "", (0.0, 1.0), (0.1, 0.6),
        "Open share of the rim face: open area between the spokes / area of the rim disc.",
        "Measure on a front view of the wheel; 0 for a fully covered (aero) disc."),

@@ -15,7 +15,7 @@ from pathlib import Path
 
 from aeroreview import __version__, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
-from aeroreview.problems import InputError, UsageError
+from aeroreview.problems import InputError, UsageError, clean
 from aeroreview.rules import REGIONS, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
 from aeroreview.sheet import load_fleet, sheet_files, suggest
@@ -86,7 +86,8 @@ def _cmd_rules(args) -> int:
 
 def _rule_json(rule) -> dict:
     return {"id": rule.id, "zone": rule.zone, "region": rule.region, "title": rule.title, "severity": rule.severity,
-            "needs": list(rule.needs), "applies_to": list(rule.applies_to) or "all classes",
+            "needs": list(rule.needs), "optional": list(rule.optional), "reads": list(rule.reads),
+            "applies_to": list(rule.applies_to) or "all classes",
             "thresholds": [{"name": t.name, "default": t.default, "unit": t.unit, "description": t.description,
                             "source": t.source.as_dict()} for t in rule.thresholds],
             "sources": [s.as_dict() for s in rule.sources],
@@ -231,7 +232,7 @@ def main(argv: list[str] | None = None) -> int:
         args = build_parser().parse_args(argv)
         return args.run(args)
     except UsageError as error:
-        print(f"error: {error}", file=sys.stderr)
+        print(f"error: {clean(error)}", file=sys.stderr)
         if debug:
             raise
         return EXIT_INPUT
@@ -247,6 +248,6 @@ def main(argv: list[str] | None = None) -> int:
     except Exception as error:  # noqa: BLE001 - last line of defence: no traceback for users
         if debug:
             raise
-        print(f"internal error: {type(error).__name__}: {error}\n"
+        print(f"internal error: {type(error).__name__}: {clean(error)}\n"
               "this is a bug in aeroreview; run again with --debug and report the traceback", file=sys.stderr)
         return EXIT_INPUT

@@ -195,9 +195,8 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     """Review one validated sheet."""
     today = today or _dt.date.today()
     air = settings.air()
-    vehicle_class = sheet.get("vehicle.class")
     findings = {rule.id: run_rule(rule, sheet, context, severity)
-                for rule, context, severity in settings.rule_plan if rule.applies(vehicle_class)}
+                for rule, context, severity in settings.rule_plan if rule.applies(sheet)}
     notices = _apply_waivers(sheet, findings, today)
 
     context = Context({}, settings.reference_speed, air.density, air.kinematic_viscosity)

@@ -33,7 +33,7 @@ from pathlib import Path
 from aeroreview import catalogue, yamldoc
 from aeroreview.catalogue import Feature
 from aeroreview.paths import PathProblem, contained_file
-from aeroreview.problems import InputError, Problem
+from aeroreview.problems import InputError, Problem, echo
 from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
 SLUG = re.compile(r"^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$")
@@ -45,6 +45,7 @@ MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
 TOP_LEVEL = ("id", "revision", "parent", "name", "reviewed", "reviewer",
              "features", "results", "waivers", "notes", "attachments", "geometry")
 SURFACE_SUFFIXES = (".stl", ".obj", ".ply", ".csv")
+MAX_GROUND = 1e6  # |ground| in file units: 1 km in mm, beyond any surface file (common practice)
 
 
 @dataclass(frozen=True)
@@ -278,12 +279,12 @@ class _Checker:
             return None
         if item.kind == "flag":
             if not isinstance(raw, bool):
-                self.error(path, f"'{item.key}' must be true or false, got '{raw}'", "write true or false")
+                self.error(path, f"'{item.key}' must be true or false, got '{echo(raw)}'", "write true or false")
                 return None
             return raw
         if item.kind == "choice":
             if not isinstance(raw, str) or raw.lower() not in item.choices:
-                self.error(path, f"'{item.key}' must be one of {', '.join(item.choices)}, got '{raw}'",
+                self.error(path, f"'{item.key}' must be one of {', '.join(item.choices)}, got '{echo(raw)}'",
                            suggest(str(raw).lower(), item.choices))
                 return None
             return raw.lower()
@@ -294,15 +295,15 @@ class _Checker:
             return None
         shown = from_si(si, item.unit)
         if item.integer and shown != int(shown):
-            self.error(path, f"'{item.key}' must be a whole number, got {raw}", "write a count such as 2")
+            self.error(path, f"'{item.key}' must be a whole number, got {echo(raw)}", "write a count such as 2")
             return None
         low, high = item.bounds
         if not low <= shown <= high:
-            self.error(path, f"'{item.key}' = {raw} is physically impossible (outside {low:g} to {high:g} {item.unit})".replace(" )", ")"),
+            self.error(path, f"'{item.key}' = {echo(raw)} is physically impossible (outside {low:g} to {high:g} {item.unit})".replace(" )", ")"),
                        "check the number and its unit")
             return None
         if item.typical and not item.typical[0] <= shown <= item.typical[1]:
-            self.warn(path, f"'{item.key}' = {raw} is outside the typical range {item.typical_text()}",
+            self.warn(path, f"'{item.key}' = {echo(raw)} is outside the typical range {item.typical_text()}",
                       f"check it; typical range: {item.typical_source}")
         return si
 
@@ -401,8 +402,10 @@ class _Checker:
             if key in data and data[key] not in allowed:
                 self.error(path + (key,), f"geometry {key} must be one of {', '.join(allowed)}", suggest(str(data[key]), allowed))
         ground = data.get("ground")
-        if ground is not None and (isinstance(ground, bool) or not isinstance(ground, (int, float))):
-            self.error(path + ("ground",), "geometry ground must be a number in the file's units", "e.g. ground: 0")
+        if ground is not None and (isinstance(ground, bool) or not isinstance(ground, (int, float))
+                                   or not abs(ground) <= MAX_GROUND):
+            self.error(path + ("ground",), f"geometry ground must be a number in the file's units, within "
+                       f"±{MAX_GROUND:g}", "e.g. ground: 0")
             ground = None
         if file and self.safe_file(file, path + ("file",), SURFACE_SUFFIXES, "surface"):
             return Geometry(file, data.get("units"), data.get("nose", "-x"), data.get("up", "+z"),

@@ -17,9 +17,20 @@ from functools import lru_cache
 
 import pint
 
+from aeroreview.problems import echo
+
 UNITS = pint.UnitRegistry()
 
 _NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+# pint's parser evaluates what it is given: "m**9**9**9" never finishes. Before pint sees a
+# unit it must match this grammar: at most MAX_TERMS unit names joined by * / or spaces,
+# each with at most one small integer exponent (no towers). Bounds from common practice:
+# no unit a reviewer types needs more than "kg*m^2/s^3".
+MAX_VALUE_TEXT = 100  # characters in a value with its unit, e.g. "2.25 m^2"
+MAX_TERMS = 6
+_NAME = r"(?:[^\W\d]|[%°µΩ])(?:[^\W\d]|[%°µΩ²³_])*"
+_TERM = rf"{_NAME}(?:\s*(?:\^|\*\*)\s*[-+]?[1-4])?"
+_UNIT = re.compile(rf"^{_TERM}(?:\s*[*/·]\s*{_TERM}|\s+{_TERM}){{0,{MAX_TERMS - 1}}}$")
 
 
 class UnitProblem(ValueError):
@@ -47,7 +58,7 @@ def _conversion(unit_text: str, canonical: str) -> tuple[float, float]:
     unit, wanted = _unit(unit_text), _unit(canonical)
     if _root(unit)[1] != _root(wanted)[1] or unit.dimensionality != wanted.dimensionality:
         raise UnitProblem(
-            f"'{unit_text}' is not a unit of {describe_dimension(canonical)}",
+            f"'{echo(unit_text)}' is not a unit of {describe_dimension(canonical)}",
             f"write it in {canonical} or a compatible unit",
         )
     zero = UNITS.Quantity(0.0, unit).to_base_units().magnitude
@@ -93,16 +104,26 @@ def to_si(value: object, canonical: str) -> float:
     if isinstance(value, bool):
         raise UnitProblem("expected a number, got true/false", f"write a number in {canonical or 'plain units'}")
     if isinstance(value, (int, float)):
-        magnitude, unit_text = float(value), canonical
+        try:
+            magnitude, unit_text = float(value), canonical
+        except OverflowError:
+            raise UnitProblem(f"the number {echo(value)} is too large", "write a number of sensible size") from None
     elif isinstance(value, str):
+        if len(value) > MAX_VALUE_TEXT:
+            raise UnitProblem(f"the value is {len(value):,} characters long, over the limit of {MAX_VALUE_TEXT}",
+                              f"write a number and a unit, e.g. '12.5 {canonical}'")
         match = _NUMBER.match(value)
         if not match:
             raise UnitProblem(
-                f"cannot read '{value}' as a number with a unit",
+                f"cannot read '{echo(value)}' as a number with a unit",
                 f"write e.g. '12.5 {canonical}'" if canonical else "write a plain number, e.g. 0.52",
             )
         magnitude = float(match.group(1))
         unit_text = match.group(2) or canonical
+        if match.group(2) and not _UNIT.match(unit_text):
+            raise UnitProblem(f"'{echo(unit_text)}' is not a unit expression this tool reads",
+                              f"write a unit such as {canonical or '%'}; exponents are single digits 1 to 4, "
+                              "written once (m^2, not m^2^2)")
     else:
         raise UnitProblem(
             f"expected a number or a string with a unit, got {type(value).__name__}",
@@ -115,8 +136,11 @@ def to_si(value: object, canonical: str) -> float:
     except UnitProblem:
         raise
     except Exception:  # noqa: BLE001 - pint's parser raises many types on odd text; all mean "not a unit"
-        raise UnitProblem(f"unknown unit '{unit_text}'", f"use a unit such as {canonical or '%'}") from None
-    return magnitude * scale + offset
+        raise UnitProblem(f"unknown unit '{echo(unit_text)}'", f"use a unit such as {canonical or '%'}") from None
+    si = magnitude * scale + offset
+    if not math.isfinite(si):
+        raise UnitProblem(f"'{echo(value)}' is too large to be a physical value", "check the number and its unit")
+    return si
 
 
 def from_si(value: float, canonical: str) -> float:

@@ -19,7 +19,7 @@ from pathlib import Path
 
 import yaml
 
-from aeroreview.problems import InputError, Problem
+from aeroreview.problems import InputError, Problem, echo
 
 MAX_BYTES = 1_000_000  # a feature sheet is a few kB; common practice for config-file limits
 MAX_VALUES = 50_000  # far above any real sheet (a few hundred values), far below a bomb
@@ -30,6 +30,10 @@ Path_ = tuple  # a path into the document: keys and list indexes
 _COMPOSER = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
 _STR = "tag:yaml.org,2002:str"
 _MERGE = "tag:yaml.org,2002:merge"
+# The tags a sheet can reach by writing plain YAML; an explicit tag outside them
+# (!!binary, !!set, !!python/..., !local) is refused, so no unusual constructor ever runs.
+_PLAIN_TAGS = {f"tag:yaml.org,2002:{name}" for name in
+               ("str", "int", "float", "bool", "null", "timestamp", "seq", "map", "merge")}
 
 
 @dataclass
@@ -104,8 +108,12 @@ def parse(text: str, file: str, lenient_tags: bool = False) -> Document:
         line, column = (mark.line + 1, mark.column + 1) if mark else (1, 1)
         raise _refuse(file, f"YAML syntax error: {error.problem or error}",
                       "check indentation, colons and quotes near this position", line, column) from None
-    except yaml.YAMLError as error:
-        raise _refuse(file, f"YAML error: {error}", "check the file is one YAML document") from None
+    except (yaml.YAMLError, RecursionError, ValueError, TypeError, AttributeError, KeyError, IndexError) as error:
+        # PyYAML's composer can fail in more ways than its own error types; all mean "not readable YAML"
+        mark = getattr(error, "problem_mark", None)
+        line, column = (mark.line + 1, mark.column + 1) if mark else (1, 1)
+        raise _refuse(file, f"YAML error: {type(error).__name__}: {error}", "check the file is one YAML document",
+                      line, column) from None
     finally:
         if loader is not None:
             loader.dispose()
@@ -149,15 +157,24 @@ class _Builder:
             raise self._fail(node, "YAML alias refers to itself", "remove the recursive alias")
         if path is not None:
             self.marks[path] = (node.start_mark.line + 1, node.start_mark.column + 1)
+        if node.tag not in _PLAIN_TAGS:
+            if self.lenient_tags and isinstance(node, yaml.ScalarNode):
+                return node.value
+            if not self.lenient_tags:
+                tag = node.tag.replace("tag:yaml.org,2002:", "!!")
+                raise self._fail(node, f"the sheet format does not use the YAML tag '{echo(tag)}'",
+                                 "remove the tag and write a plain value, list or mapping")
         if isinstance(node, yaml.ScalarNode):
             if node.tag == _STR:
                 return node.value  # the common case, without the constructor's dispatch
             try:
                 return self.constructor.construct_object(node)
-            except (yaml.constructor.ConstructorError, ValueError) as error:
+            except Exception:  # noqa: BLE001 - PyYAML's constructors raise AttributeError, KeyError ... on bad text
                 if self.lenient_tags:
                     return node.value
-                raise self._fail(node, f"cannot read value: {error}", "quote the value if it is text") from None
+                kind = node.tag.rsplit(":", 1)[-1]
+                raise self._fail(node, f"cannot read '{echo(node.value)}' as a YAML {kind}",
+                                 "quote the value if it is text, or remove the explicit tag") from None
         active = active + (id(node),)
         if isinstance(node, yaml.SequenceNode):
             return [self.build(item, path + (i,), depth + 1, active) for i, item in enumerate(node.value)]

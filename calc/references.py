@@ -1,16 +1,26 @@
 """Published reference curves the rules and the site use.
 
 The Ahmed body (Ahmed, Ramm and Faltin, "Some salient features of the time-averaged ground
-vehicle wake", SAE 840300, 1984): a 1044 mm long bluff body with rounded front and a
-slanted rear, whose drag coefficient against slant angle is the trade's standard picture
-of why backlight angles near 30 deg are dangerous. Drag falls from 0 to about 10-12 deg,
-rises as the longitudinal C-pillar vortices strengthen, peaks just below the critical
-angle of about 30 deg (flow still attached on the slant, strongest vortices), then drops
+vehicle wake", SAE 840300, SAE Transactions 93 (1984) 473-503; title, authors, year, venue and
+abstract checked on a copy of the paper's first page): a 1044 mm long bluff body with rounded
+front and a slanted rear, whose drag coefficient against slant angle is the trade's standard
+picture of why backlight angles near 30 deg are dangerous. Drag falls from 0 deg to a minimum
+near 12.5 deg, rises as the longitudinal C-pillar vortices strengthen, peaks just below the
+critical angle of about 30 deg (flow still attached on the slant, strongest vortices), then drops
 abruptly when the flow separates over the whole slant and the body behaves like a square-back.
+A review of Ahmed-body wake studies (Appl. Mech. Rev. 73 (2021) 060801, abstract checked) names
+the same regimes: high drag for 12.5 < slant < 30 deg, low drag above 30 deg.
 
-The values below are read from the paper's drag figure **from memory** and are good to
-about +-0.01; the three widely quoted points (0.285 at 25 deg, 0.378 just below 30 deg,
-0.260 at 35 deg) are marked as such. Check them against the paper before quoting them.
+The drag values below are **from memory**, not re-read from the paper's figure (the search tool
+found no copy of the figure). Each point says what it is:
+
+- ``quoted``: the widely quoted values (0.285 at 25 deg, 0.378 just below 30 deg, 0.260 at 35 deg,
+  the minimum near 0.23 at 12.5 deg), recalled, good to about +-0.01;
+- ``read``: recalled as read from the published figure, good to about +-0.015;
+- ``interpolated``: our smooth interpolation between those, not a published value.
+
+The 28-30 deg segment is the steepest part of the curve, has no recalled point between 25 and
+30 deg and drives the backlight rule's estimate; its uncertainty is given as +-0.03.
 """
 
 from __future__ import annotations
@@ -29,55 +39,83 @@ AHMED_FRONTAL_AREA = 0.112  # m^2, published frontal area (389 x 288 mm with 100
 class CurvePoint:
     angle: float  # deg
     cd: float
-    note: str
+    kind: str  # "quoted", "read" or "interpolated" (see the module docstring)
+    uncertainty: float  # +- in Cd
+
+    @property
+    def note(self) -> str:
+        words = {"quoted": "widely quoted value; from memory", "read": "read from the published figure; from memory",
+                 "interpolated": "interpolated between recalled points, not a published value"}
+        return f"{words[self.kind]} (+-{self.uncertainty:.3f})"
 
 
 # Below the critical angle: flow attached on the slant (or with a separation bubble).
 AHMED_ATTACHED = (
-    CurvePoint(0.0, 0.250, "widely quoted value; from memory"),
-    CurvePoint(5.0, 0.231, "read from the figure; from memory"),
-    CurvePoint(10.0, 0.230, "read from the figure; from memory"),
-    CurvePoint(12.5, 0.232, "read from the figure; from memory"),
-    CurvePoint(15.0, 0.241, "read from the figure; from memory"),
-    CurvePoint(20.0, 0.257, "read from the figure; from memory"),
-    CurvePoint(25.0, 0.285, "widely quoted value; from memory"),
-    CurvePoint(28.0, 0.320, "read from the figure; from memory"),
-    CurvePoint(30.0, 0.378, "widely quoted peak just below the critical angle; from memory"),
+    CurvePoint(0.0, 0.250, "quoted", 0.010),
+    CurvePoint(5.0, 0.240, "interpolated", 0.015),
+    CurvePoint(10.0, 0.232, "interpolated", 0.015),
+    CurvePoint(12.5, 0.230, "quoted", 0.010),
+    CurvePoint(15.0, 0.236, "interpolated", 0.015),
+    CurvePoint(20.0, 0.255, "read", 0.015),
+    CurvePoint(25.0, 0.285, "quoted", 0.010),
+    CurvePoint(28.0, 0.330, "interpolated", 0.030),
+    CurvePoint(30.0, 0.378, "quoted", 0.030),
 )
 # Above it: flow fully separated from the slant.
 AHMED_SEPARATED = (
-    CurvePoint(30.0, 0.264, "read from the figure; from memory"),
-    CurvePoint(35.0, 0.260, "widely quoted value; from memory"),
-    CurvePoint(40.0, 0.258, "read from the figure; from memory"),
+    CurvePoint(30.0, 0.264, "read", 0.015),
+    CurvePoint(35.0, 0.260, "quoted", 0.010),
+    CurvePoint(40.0, 0.258, "read", 0.015),
 )
+
+
+def _branch(angle, points, field: str):
+    return np.interp(angle, [p.angle for p in points], [getattr(p, field) for p in points])
+
+
+def _checked(angle_deg):
+    angle = np.asarray(angle_deg, dtype=float)
+    if np.any(angle < 0) or np.any(angle > 40):
+        raise ValueError("the Ahmed curve covers slant angles from 0 to 40 deg")
+    return angle
 
 
 def ahmed_cd(angle_deg):
     """Ahmed-body Cd at slant angle(s) [deg] from 0 to 40, interpolated linearly on the
     attached branch up to the critical 30 deg and on the separated branch above it.
 
-    Example: 25 deg gives 0.285, 27.5 deg lies between 0.285 and 0.320.
+    Example: 25 deg gives 0.285, 27.5 deg lies between 0.285 and 0.330.
 
     >>> round(float(ahmed_cd(25.0)), 3), round(float(ahmed_cd(35.0)), 3)
     (0.285, 0.26)
 
     Reference: Ahmed, Ramm and Faltin (1984), SAE 840300 (values from memory, see the module).
     """
-    angle = np.asarray(angle_deg, dtype=float)
-    if np.any(angle < 0) or np.any(angle > 40):
-        raise ValueError("the Ahmed curve covers slant angles from 0 to 40 deg")
-    attached = np.interp(angle, [p.angle for p in AHMED_ATTACHED], [p.cd for p in AHMED_ATTACHED])
-    separated = np.interp(angle, [p.angle for p in AHMED_SEPARATED], [p.cd for p in AHMED_SEPARATED])
-    return np.where(angle <= AHMED_CRITICAL_ANGLE, attached, separated)
+    angle = _checked(angle_deg)
+    return np.where(angle <= AHMED_CRITICAL_ANGLE, _branch(angle, AHMED_ATTACHED, "cd"),
+                    _branch(angle, AHMED_SEPARATED, "cd"))
+
+
+def ahmed_uncertainty(angle_deg):
+    """The +- uncertainty [Cd] of :func:`ahmed_cd` at slant angle(s) [deg], interpolated like the curve.
+
+    Example: the recalled 25 deg point is good to +-0.01; the steep 28-30 deg segment to +-0.03.
+
+    >>> round(float(ahmed_uncertainty(25.0)), 3), round(float(ahmed_uncertainty(29.0)), 3)
+    (0.01, 0.03)
+    """
+    angle = _checked(angle_deg)
+    return np.where(angle <= AHMED_CRITICAL_ANGLE, _branch(angle, AHMED_ATTACHED, "uncertainty"),
+                    _branch(angle, AHMED_SEPARATED, "uncertainty"))
 
 
 def ahmed_minimum() -> CurvePoint:
     """The lowest-drag point [deg, Cd] of the attached branch.
 
-    Example (Ahmed et al. 1984, from memory): about 0.230 at 10 deg.
+    Example (Ahmed et al. 1984, quoted value from memory): about 0.230 at 12.5 deg.
 
     >>> point = ahmed_minimum()
     >>> point.angle, point.cd
-    (10.0, 0.23)
+    (12.5, 0.23)
     """
     return min(AHMED_ATTACHED, key=lambda p: p.cd)

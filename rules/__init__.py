@@ -68,8 +68,12 @@ class Source:
 
 
 COMMON = Source("common practice in production-car aerodynamics", "common practice")
-HUCHO = Source("Hucho (ed.), Aerodynamics of Road Vehicles, 4th ed., SAE 1998; recalled, not checked page by page",
-               "from memory")
+HUCHO = Source("Hucho (ed.), Aerodynamics of Road Vehicles, 4th ed., SAE 1998; edition recalled (search confirmed only "
+               "the 1987 Butterworths edition, in a published reference list); chapter not checked, figure recalled, "
+               "not checked", "from memory")
+HUCHO_SOVRAN = Source("Hucho and Sovran, 'Aerodynamics of road vehicles', Annu. Rev. Fluid Mech. 25 (1993) 485-537 "
+                      "(title/authors/year/venue and first page checked on a copy): drag is mainly pressure drag, and "
+                      "avoiding or controlling separation is the main objective", "published")
 
 
 @dataclass(frozen=True)
@@ -158,7 +162,7 @@ class Rule:
     zone: str
     title: str
     severity: str
-    needs: tuple[str, ...]
+    needs: tuple[str, ...]  # features without which the rule cannot judge ("not assessed")
     thresholds: tuple[Threshold, ...]
     sources: tuple[Source, ...]
     check: Callable
@@ -166,6 +170,8 @@ class Rule:
     figure: str | None = None  # name of a reference figure the site can draw
     region: str | None = None  # the flow region its fix acts on (REGIONS); None: no drag counts
     sensitivity: Sensitivity | None = None
+    optional: tuple[str, ...] = ()  # features the rule reads when given (a better limit or estimate)
+    applies_if: Callable | None = None  # geometry test (sheet -> bool) beside the class list
 
     @property
     def doc(self) -> dict[str, str]:
@@ -185,8 +191,16 @@ class Rule:
     def defaults(self) -> dict[str, float]:
         return {t.name: t.parse(t.default) for t in self.thresholds}
 
-    def applies(self, vehicle_class: str | None) -> bool:
-        return not self.applies_to or vehicle_class in self.applies_to
+    @property
+    def reads(self) -> tuple[str, ...]:
+        """Every feature the rule reads, needed or optional."""
+        return self.needs + tuple(key for key in self.optional if key not in self.needs)
+
+    def applies(self, sheet) -> bool:
+        """Whether the rule judges this sheet: its class is listed (or none are) and its geometry fits."""
+        if self.applies_to and sheet.get("vehicle.class") not in self.applies_to:
+            return False
+        return self.applies_if is None or bool(self.applies_if(sheet))
 
 
 _SECTION = re.compile(r"^(%s):\s*" % "|".join(DOC_SECTIONS), re.M)
@@ -206,7 +220,7 @@ REGISTRY: dict[str, Rule] = {}
 
 
 def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=(), applies_to=(), figure=None,
-         region: str | None = "", sensitivity: Sensitivity | None = None):
+         region: str | None = "", sensitivity: Sensitivity | None = None, optional=(), applies_if=None):
     """Register the decorated function as a rule (see the module docstring).
 
     ``region`` defaults to the zone's flow region; give it where the fix acts on another flow.
@@ -226,7 +240,7 @@ def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=()
         if sensitivity and (sensitivity.feature not in needs or sensitivity.fix_to not in {t.name for t in thresholds}):
             raise ValueError(f"{id}: a sensitivity needs one of the rule's features and thresholds")
         REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), tuple(sources), function,
-                            tuple(applies_to), figure, flow, sensitivity)
+                            tuple(applies_to), figure, flow, sensitivity, tuple(optional), applies_if)
         return function
 
     return register
@@ -243,7 +257,9 @@ def _ordered(size: int) -> dict[str, Rule]:
     return dict(sorted(REGISTRY.items(), key=lambda item: (order.index(item[1].zone), item[0])))
 
 
-FRONTAL_AREA_FACTOR = 0.84  # A / (width x height) of a passenger car, about 0.81-0.87 (from memory, Hucho 1998 ch. 4)
+FRONTAL_AREA_FACTOR = 0.84  # A / (width x height) of a passenger car, about 0.81-0.87 (from memory, Hucho 1998,
+# chapter not checked)
+BOX_CLASSES = ("van", "suv", "pickup", "crossover")  # upright fronts and square backs (common practice)
 
 
 def body_scale(sheet) -> float | None:
@@ -255,6 +271,16 @@ def body_scale(sheet) -> float | None:
     if area is None and sheet.has("dimensions.width", "dimensions.height"):
         area = FRONTAL_AREA_FACTOR * sheet.get("dimensions.width") * sheet.get("dimensions.height")
     return math.sqrt(area) if area else None
+
+
+def front_face_height(sheet) -> float | None:
+    """Height [m] of the front face a low car nose turns the flow over: hood edge height minus air-dam clearance.
+
+    None for upright (box) classes, which are judged against sqrt(A), or when the hood edge height is not given.
+    """
+    if sheet.get("vehicle.class") in BOX_CLASSES or sheet.get("front.hood_edge_height") is None:
+        return None
+    return sheet.get("front.hood_edge_height") - (sheet.get("front.air_dam_clearance") or 0.0)
 
 
 def counts_range(low: float, high: float) -> tuple[float, float]:

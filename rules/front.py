@@ -2,20 +2,28 @@
 
 from __future__ import annotations
 
-from aeroreview.rules import COMMON, HUCHO, Source, Threshold, body_scale, counts_range, major, minor, passed, rule
+import math
 
-EDGE_SOURCE = Source("Hucho 1998, ch. 4, front-edge rounding on box-like bodies: drag falls steeply with the "
-                     "edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled",
-                     "from memory")
+from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Source, Threshold, body_scale, counts_range,
+                              front_face_height, major, minor, passed, rule)
+
+EDGE_SOURCE = Source("Hucho 1998, front-edge rounding on box-like bodies (chapter not checked): drag falls steeply "
+                     "with the edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled, "
+                     "not checked", "from memory")
+FACE_SOURCE = Source("low car noses: the radius is compared with the height of the front face it turns the flow "
+                     "over (hood edge height minus air-dam clearance), by the same 0.04-0.05 ratio as for boxes; "
+                     "an engineering transfer of the box-body result, recalled, not checked", "from memory")
+_EDGE_READS = ("dimensions.frontal_area", "dimensions.width", "dimensions.height", "vehicle.class")
 
 
-def _edge_rule(sheet, ctx, key: str, what: str, van_like_counts, car_counts):
-    scale = body_scale(sheet)
+def _edge_rule(sheet, ctx, key: str, what: str, van_like_counts, car_counts, face=None):
+    """Judge an edge radius against a length: the front face height when given (low noses), else sqrt(A)."""
+    scale, against = (face, "front face height h") if face else (body_scale(sheet), "sqrt(A)")
     radius = sheet.get(key)
     ratio = radius / scale
-    boxy = sheet.get("vehicle.class") in ("van", "suv", "pickup")
+    boxy = sheet.get("vehicle.class") in BOX_CLASSES
     low, high = van_like_counts if boxy else car_counts
-    measured = f"r / sqrt(A) = {ratio:.3f} ({radius * 1000:.0f} mm)"
+    measured = f"r / {against} = {ratio:.3f} ({radius * 1000:.0f} mm on {scale * 1000:.0f} mm)"
     if ratio < ctx["attached_ratio"]:
         shortfall = 1 - ratio / ctx["attached_ratio"]
         return major(f"{what} radius is small for the body size: the flow separates at the edge",
@@ -36,12 +44,15 @@ _EDGE_THRESHOLDS = (
 
 @rule("front.upper-edge-radius", "Front upper edge radius relative to body size", "warning",
       needs=("front.upper_edge_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
-      sources=(EDGE_SOURCE, Source("effect: 10-40 counts on van-like bodies, 2-10 on cars; from memory (Hucho 1998)",
-                                   "from memory")))
+      optional=_EDGE_READS + ("front.hood_edge_height", "front.air_dam_clearance"),
+      sources=(EDGE_SOURCE, FACE_SOURCE, Source("effect: 10-40 counts on van-like bodies, 2-10 on cars; from memory "
+                                                "(Hucho 1998, chapter not checked)", "from memory")))
 def upper_edge_radius(sheet, ctx):
     """
     What it checks: the radius of the front upper edge (bumper to hood) in the side view,
-    relative to the body size sqrt(A).
+    relative to the length the flow turns over: on a low car nose the front face height
+    (hood edge height minus air-dam clearance), on upright bodies (vans, SUVs, pickups,
+    crossovers) or when the hood edge height is not given, sqrt(A).
 
     Why it matters: the flow turning over a sharp front edge separates and reattaches
     further back; the bubble raises drag, and on upright fronts (vans, SUVs) it is one of the
@@ -53,16 +64,18 @@ def upper_edge_radius(sheet, ctx):
     similar extent.
 
     Known limits: a single radius describes the edge; real edges vary along their length.
-    The threshold comes from box-like bodies at zero yaw; low sedan noses with a shallow
-    hood are less sensitive.
+    The threshold comes from box-like bodies at zero yaw; applying it to a car's front face
+    height is an engineering transfer, not a published result.
     """
-    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge", (10, 40), (2, 10))
+    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge", (10, 40), (2, 10),
+                      face=front_face_height(sheet))
 
 
 @rule("front.corner-radius", "Front corner radius in plan view relative to body size", "warning",
       needs=("front.corner_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
-      sources=(EDGE_SOURCE, Source("effect: 5-25 counts on van-like bodies, 2-8 on cars; from memory (Hucho 1998)",
-                                   "from memory")))
+      optional=_EDGE_READS,
+      sources=(EDGE_SOURCE, Source("effect: 5-25 counts on van-like bodies, 2-8 on cars; from memory (Hucho 1998, "
+                                   "chapter not checked)", "from memory")))
 def corner_radius(sheet, ctx):
     """
     What it checks: the radius of the front corners (bumper to body side) in the plan view,
@@ -75,7 +88,8 @@ def corner_radius(sheet, ctx):
     corner chamfer with a rounded leading edge; an air curtain can help where the corner
     must stay tight.
 
-    Known limits: evaluated at zero yaw from one plan-view radius at bumper height.
+    Known limits: evaluated at zero yaw from one plan-view radius at bumper height, always
+    against sqrt(A) (the plan-view corner turns the flow around the whole front).
     """
     return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner", (5, 25), (2, 8))
 
@@ -83,8 +97,8 @@ def corner_radius(sheet, ctx):
 @rule("front.air-dam", "Front air dam reaches below the underbody", "advisory", region="underbody",
       needs=("front.air_dam_clearance", "dimensions.ground_clearance"),
       thresholds=(Threshold("dam_depth", "15 mm", "mm", "how far the dam edge should reach below the underbody", COMMON),),
-      sources=(HUCHO, Source("effect: 3-12 counts and less front lift; from memory (Hucho 1998, front spoilers)",
-                             "from memory")))
+      sources=(HUCHO, Source("effect: 3-12 counts and less front lift; from memory (Hucho 1998, front spoilers, "
+                             "chapter not checked)", "from memory")))
 def air_dam(sheet, ctx):
     """
     What it checks: whether the lower edge of the front air dam reaches below the
@@ -112,7 +126,7 @@ def air_dam(sheet, ctx):
 @rule("front.air-curtains", "Air curtains ahead of the front wheels", "advisory", region="wheels",
       needs=("front.air_curtains",),
       sources=(Source("effect: 2-8 counts; from memory (published production-car figures for wheel air curtains)",
-                      "from memory"),), applies_to=("sedan", "fastback", "hatchback", "estate", "suv", "sports"))
+                      "from memory"),), applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
 def air_curtains(sheet, ctx):
     """
     What it checks: whether ducts from the front bumper blow a sheet of air across the
@@ -131,3 +145,101 @@ def air_curtains(sheet, ctx):
         return passed("air curtains are fitted", measured="fitted")
     return minor("no air curtains ahead of the front wheels", measured="none", limit="fitted",
                  counts=counts_range(2, 8))
+
+
+NOSE_SOURCE = Source("Hucho 1998, front-end shape (chapter not checked): a low stagnation point and a hood "
+                     "inclined by about 8-15 deg lower drag and front lift on passenger cars; thresholds recalled, "
+                     "not checked", "from memory")
+
+
+@rule("front.hood-angle", "Hood inclination", "advisory",
+      needs=("front.hood_angle",),
+      thresholds=(Threshold("flat", "6 deg", "deg", "hood inclination below which the nose stays blunt",
+                            NOSE_SOURCE),
+                  Threshold("steep", "20 deg", "deg", "inclination above which the flow may separate at the hood "
+                                                      "leading edge", NOSE_SOURCE)),
+      sources=(NOSE_SOURCE, Source("effect: 1-5 counts; recalled, not checked", "from memory")),
+      applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
+def hood_angle(sheet, ctx):
+    """
+    What it checks: the inclination of the hood in the side view.
+
+    Why it matters: a hood rising toward the windshield lowers the nose and the stagnation
+    point and lets the flow accelerate smoothly over the front; a flat, high hood keeps the
+    nose blunt. Too steep, and the flow separates behind the hood's leading edge.
+
+    How to fix: incline the hood by 8-15 deg, lowering its leading edge within the
+    pedestrian-protection and package limits.
+
+    Known limits: the hood's curvature and its junction with the windshield matter too;
+    vans and pickups are excluded because their packages fix the hood.
+    """
+    degrees = math.degrees(sheet.get("front.hood_angle"))
+    flat, steep = math.degrees(ctx["flat"]), math.degrees(ctx["steep"])
+    measured, limit = f"{degrees:.1f} deg", f"{flat:.0f}-{steep:.0f} deg"
+    if degrees < flat:
+        return minor("the hood is nearly flat: the nose stays high and blunt", measured=measured, limit=limit,
+                     margin=f"{degrees - flat:+.1f} deg", counts=counts_range(1, 5), cl_front=-0.01)
+    if degrees > steep:
+        return minor("the hood is steep enough to separate behind its leading edge", measured=measured, limit=limit,
+                     margin=f"{degrees - steep:+.1f} deg", counts=counts_range(1, 3))
+    return passed("the hood inclination is in the usual range", measured=measured, limit=limit)
+
+
+@rule("front.stagnation-height", "Height of the stagnation point", "advisory",
+      needs=("front.stagnation_height", "dimensions.height"),
+      thresholds=(Threshold("share", "36 %", "%", "stagnation height / body height above which the nose is high",
+                            NOSE_SOURCE),),
+      sources=(NOSE_SOURCE, Source("effect: 1-4 counts and 0.01-0.03 of front lift; recalled, not checked",
+                                   "from memory")),
+      applies_to=("sedan", "fastback", "hatchback", "estate", "sports"))
+def stagnation_height(sheet, ctx):
+    """
+    What it checks: the height of the nose's forwardmost point (where the flow stagnates)
+    as a share of the body height.
+
+    Why it matters: the stagnation point divides the oncoming air between the top of the
+    body and the underbody; a high nose sends more of it under the car, where it meets the
+    rough underbody and raises drag and front lift.
+
+    How to fix: lower the nose's leading point (a lower, more rounded bumper), keeping the
+    pedestrian lower-leg and approach-angle requirements.
+
+    Known limits: for low cars only; the underbody shielding by the air dam changes how much
+    the split matters.
+    """
+    share = sheet.get("front.stagnation_height") / sheet.get("dimensions.height")
+    measured = f"{share * 100:.0f} % of the height ({sheet.get('front.stagnation_height') * 1000:.0f} mm)"
+    limit = f"<= {ctx['share'] * 100:.0f} %"
+    if share > ctx["share"]:
+        return minor("the nose is high: more air is sent under the car", measured=measured, limit=limit,
+                     margin=f"{(share - ctx['share']) * 100:+.0f} %", counts=counts_range(1, 4), cl_front=-0.02)
+    return passed("the stagnation point is low", measured=measured, limit=limit)
+
+
+@rule("front.splitter", "Front splitter overhang", "advisory",
+      needs=("front.splitter_length",),
+      thresholds=(Threshold("maximum", "60 mm", "mm", "overhang above which a road car's splitter adds drag and is "
+                                                      "exposed to kerbs", COMMON),),
+      sources=(COMMON, Source("effect: 1-4 counts for the overhang beyond 60 mm, with less front lift; recalled, "
+                              "not checked", "from memory")))
+def splitter(sheet, ctx):
+    """
+    What it checks: how far a horizontal splitter reaches forward of the bumper face.
+
+    Why it matters: a short splitter sharpens the separation under the bumper and trims
+    front lift; a long one collects stagnation pressure on its top face (downforce, but also
+    drag) and is the first part to meet kerbs and ramps.
+
+    How to fix: keep the overhang within 60 mm on a road car, or support a longer one and
+    weigh its drag against the front-lift target.
+
+    Known limits: the right length depends on the front-lift balance; the rule only flags
+    long overhangs.
+    """
+    length = sheet.get("front.splitter_length")
+    measured, limit = f"{length * 1000:.0f} mm", f"<= {ctx['maximum'] * 1000:.0f} mm"
+    if length > ctx["maximum"]:
+        return minor("the splitter overhang is long for a road car: drag and kerb strikes", measured=measured,
+                     limit=limit, margin=f"{(length - ctx['maximum']) * 1000:+.0f} mm", counts=counts_range(1, 4))
+    return passed("the splitter overhang is moderate", measured=measured, limit=limit)

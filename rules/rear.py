@@ -4,36 +4,56 @@ from __future__ import annotations
 
 import math
 
-from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd
-from aeroreview.rules import COMMON, HUCHO, Sensitivity, Source, Threshold, body_scale, counts_range, major, minor, passed, rule
+from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd, ahmed_uncertainty
+from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Sensitivity, Source, Threshold, body_scale,
+                              counts_range, major, minor, passed, rule)
 
-AHMED = Source(AHMED_SOURCE + ": critical slant angle about 30 deg, drag peak just below it", "published")
-RADIUS_SOURCE = Source("Thacker, Aubrun, Leroy and Devinant, Exp. Fluids 53 (2012): rounding the roof-to-slant edge "
-                       "of the Ahmed body changes the slant flow regime; threshold recalled", "from memory")
-TAPER_SOURCE = Source("Hucho 1998, ch. 4, boat-tailing: drag falls with taper angle up to about 15 deg, beyond "
-                      "which the flow separates from the taper; recalled", "from memory")
+AHMED = Source(AHMED_SOURCE + ", SAE Transactions 93 (1984) 473-503 (title/authors/year/venue and abstract checked "
+               "on a copy of the first page): critical slant angle about 30 deg, drag peak just below it; curve "
+               "values recalled, see aeroreview.calc.references", "published")
+BAND = Source("practitioner's margin of about 4 deg around the published ~30 deg critical angle of the Ahmed body "
+              "(Ahmed et al. 1984), with the drag rise beginning near 21 deg; the band itself is common practice, "
+              "not a published figure", "common practice")
+RADIUS_SOURCE = Source("Thacker, Aubrun, Leroy and Devinant, rounded roof-to-slant edge on the Ahmed body, recalled "
+                       "as J. Wind Eng. Ind. Aerodyn. 107-108 (2012) (their Exp. Fluids paper is recalled as vol. 54, "
+                       "2013); search found neither title nor abstract, so venue, volume and the 0.15 threshold are "
+                       "recalled, not checked", "from memory")
+RADIUS_EFFECT = Source("effect: a generous roof-to-backlight radius removes up to 60 % of the Ahmed-curve drag step, in "
+                       "proportion to r / sqrt(A) up to 0.15; recalled, not checked (rounded-edge Ahmed studies)",
+                       "from memory")
+TAPER_SOURCE = Source("Hucho 1998, boat-tailing (chapter not checked): drag falls with taper angle up to about 15 deg, "
+                      "beyond which the flow separates from the taper; recalled, not checked", "from memory")
+SQUARE_BACK_ANGLE = 40.0  # deg: the Ahmed curve is published from 0 to 40 deg and flat above 35 (Ahmed et al. 1984)
+
+
+def slanted_rear(sheet) -> bool:
+    """A slanted rear: a backlight angle is given and lies where the Ahmed behaviour matters (<= 40 deg)."""
+    angle = sheet.get("rear.backlight_angle")
+    return angle is not None and math.degrees(angle) <= SQUARE_BACK_ANGLE
 
 
 @rule("rear.backlight-angle", "Backlight angle against the Ahmed critical region", "failure",
-      needs=("rear.backlight_angle",),
+      needs=("rear.backlight_angle",), optional=("rear.roof_backlight_radius", "dimensions.frontal_area",
+                                                  "dimensions.width", "dimensions.height"),
       thresholds=(
-          Threshold("critical_low", "26 deg", "deg", "lower edge of the critical slant region", AHMED),
-          Threshold("critical_high", "34 deg", "deg", "upper edge of the critical slant region", AHMED),
-          Threshold("rising_low", "21 deg", "deg", "angle above which drag rises toward the peak", AHMED),
+          Threshold("critical_low", "26 deg", "deg", "lower edge of the critical slant region", BAND),
+          Threshold("critical_high", "34 deg", "deg", "upper edge of the critical slant region", BAND),
+          Threshold("rising_low", "21 deg", "deg", "angle above which drag rises toward the peak", BAND),
           Threshold("generous_radius", "0.15", "", "roof-to-backlight radius / sqrt(A) that steadies the flow",
                     RADIUS_SOURCE),
       ),
-      sources=(AHMED, RADIUS_SOURCE,
-               Source("effect: 20-60 % of the Ahmed-curve drag step; production bodies respond less than the "
-                      "Ahmed body (from memory)", "from memory")),
-      applies_to=("sedan", "fastback", "hatchback", "estate", "sports"), figure="ahmed",
+      sources=(AHMED, BAND, RADIUS_SOURCE, RADIUS_EFFECT,
+               Source("effect: 20-60 % of the Ahmed-curve drag step (with the curve's uncertainty); production bodies "
+                      "respond less than the Ahmed body; recalled, not checked", "from memory")),
+      applies_if=slanted_rear, figure="ahmed",
       sensitivity=Sensitivity("rear.backlight_angle", 3.2, "deg", (20, 28), "rising_low", Source(
           "the Ahmed curve rises about 8 counts per deg from 20 to 28 deg (SAE 840300, values from memory); x 0.4 "
           "for a production body, the middle of the rule's 20-60 %", "from memory")))
 def backlight_angle(sheet, ctx):
     """
     What it checks: where the backlight (rear window) angle lies on the Ahmed-body drag
-    curve, and whether a generous roof-to-backlight radius offsets a risky angle.
+    curve, and whether a generous roof-to-backlight radius offsets a risky angle. It judges
+    any slanted rear (a backlight angle up to 40 deg), whatever the body class.
 
     Why it matters: on a slanted rear, drag rises with slant angle as the C-pillar vortices
     strengthen, peaks just below about 30 deg, then drops abruptly when the flow separates
@@ -49,35 +69,37 @@ def backlight_angle(sheet, ctx):
 
     Known limits: the Ahmed body is a simple bluff body; a production car's C-pillar shape,
     side taper and decklid move the critical angle by several degrees. The effect estimate
-    scales the Ahmed drag step and is an order of magnitude, not a prediction.
+    scales the Ahmed drag step, widened by the curve's uncertainty (+-0.03 on the steep
+    28-30 deg segment), and is an order of magnitude, not a prediction. Backlights steeper
+    than 40 deg are square-backs: the roof-taper and base rules judge them.
     """
     degrees = math.degrees(sheet.get("rear.backlight_angle"))
     low, high = math.degrees(ctx["critical_low"]), math.degrees(ctx["critical_high"])
     rising = math.degrees(ctx["rising_low"])
     radius = sheet.get("rear.roof_backlight_radius")
     scale = body_scale(sheet)
-    generous = radius is not None and scale is not None and radius / scale >= ctx["generous_radius"]
-    radius_text = (f"; roof radius r / sqrt(A) = {radius / scale:.2f}" if radius is not None and scale else
-                   "; roof radius not given")
+    ratio = radius / scale if radius is not None and scale else None
+    generous = ratio is not None and ratio >= ctx["generous_radius"]
+    radius_text = f"; roof radius r / sqrt(A) = {ratio:.2f}" if ratio is not None else "; roof radius not given"
     measured = f"{degrees:.1f} deg{radius_text}"
-    if degrees > 40:
-        return passed("the backlight is steep enough for a clean squareback separation", measured=measured,
-                      limit=f"outside {low:.0f}-{high:.0f} deg")
-    step = float(ahmed_cd(degrees) - min(ahmed_cd(min(rising, degrees)), ahmed_cd(max(high + 1, 35.0))))
-    counts = counts_range(200 * step, 600 * step)
+    reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(max(high + 1, 35.0)))
+    step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
+    steadied = 1 - 0.6 * min(1.0, (ratio or 0.0) / ctx["generous_radius"])  # the radius lowers the estimate too
+    counts = counts_range(200 * (step - spread) * steadied, 600 * (step + spread) * steadied)
+    details = {"ahmed_step": round(step, 4), "ahmed_uncertainty": spread, "radius_factor": round(steadied, 3)}
     if low <= degrees <= high:
         margin = f"{min(degrees - low, high - degrees):.1f} deg inside the region"
         if generous:
             return minor("the backlight lies in the critical region, steadied by a generous roof radius",
                          measured=measured, limit=f"outside {low:.0f}-{high:.0f} deg", margin=margin,
-                         counts=counts, cl_rear=-0.03)
+                         counts=counts, cl_rear=-0.03, details=details)
         return major("the backlight lies in the critical region of the Ahmed curve: high drag and a flow that can "
                      "switch state", measured=measured, limit=f"outside {low:.0f}-{high:.0f} deg", margin=margin,
-                     counts=counts, cl_rear=-0.05)
+                     counts=counts, cl_rear=-0.05, details=details)
     if rising < degrees < low and not generous:
         return minor("the backlight is on the rising part of the Ahmed curve, close to the critical region",
                      measured=measured, limit=f"<= {rising:.0f} deg or a generous roof radius",
-                     margin=f"{low - degrees:.1f} deg below the region", counts=counts, cl_rear=-0.02)
+                     margin=f"{low - degrees:.1f} deg below the region", counts=counts, cl_rear=-0.02, details=details)
     return passed("the backlight angle is clear of the critical region", measured=measured,
                   limit=f"outside {low:.0f}-{high:.0f} deg")
 
@@ -127,14 +149,14 @@ def side_taper(sheet, ctx):
 
 
 @rule("rear.roof-taper", "Roof drop toward the rear (side-view boat-tailing)", "warning",
-      needs=("rear.roof_taper_angle",), thresholds=_TAPER_THRESHOLDS,
+      needs=("rear.roof_taper_angle",), optional=("rear.backlight_angle",), thresholds=_TAPER_THRESHOLDS,
       sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
-      applies_to=("suv", "estate", "hatchback", "van", "pickup"),
+      applies_if=lambda sheet: not slanted_rear(sheet),
       sensitivity=Sensitivity("rear.roof_taper_angle", -1.5, "deg", (0, 15), "useful", TAPER_SOURCE))
 def roof_taper(sheet, ctx):
     """
     What it checks: the side-view drop of the roof over its last part on square-backed
-    bodies (SUV, estate, hatchback, van, pickup cab).
+    bodies: no backlight angle given, or one steeper than 40 deg, whatever the class.
 
     Why it matters: as on the sides, a moderate roof drop shrinks the wake and raises base
     pressure; beyond about 15 deg the flow separates and the drop only adds rear lift.
@@ -142,7 +164,9 @@ def roof_taper(sheet, ctx):
     How to fix: drop the roof or the roof spoiler by 5-15 deg over its last 300 mm, ending
     in a sharp edge.
 
-    Known limits: on fastbacks and sedans the backlight rule judges the roof end instead.
+    Known limits: where the rear is slanted (a backlight of 40 deg or less), the roof end is
+    the backlight and the backlight rule judges it; this rule then does not run, so the
+    backlight's slope is never charged twice as a roof taper.
     """
     return _taper(sheet, ctx, "rear.roof_taper_angle", "roof")
 
@@ -150,7 +174,7 @@ def roof_taper(sheet, ctx):
 @rule("rear.separation-edge", "Defined separation edges at the rear", "warning",
       needs=("rear.separation_edge_radius",),
       thresholds=(Threshold("radius", "10 mm", "mm", "edge radius above which the separation line wanders", COMMON),),
-      sources=(COMMON, Source("effect: 3-12 counts; from memory", "from memory")))
+      sources=(COMMON, HUCHO_SOVRAN, Source("effect: 3-12 counts; from memory", "from memory")))
 def separation_edge(sheet, ctx):
     """
     What it checks: that the rear edges where the flow should leave the body (tail lamp
@@ -224,3 +248,106 @@ def roof_rails(sheet, ctx):
         return major("raised roof rails stand in the fastest flow on the body", measured="raised", limit="flush or none",
                      counts=counts_range(5, 15))
     return passed("no raised roof rails", measured=rails)
+
+
+DECKLID_SOURCE = Source("notchback decklids: a longer, higher decklid lets the backlight flow reattach and shortens the "
+                        "wake; Hucho 1998, notchback rear ends (chapter not checked); thresholds recalled, not checked",
+                        "from memory")
+
+
+@rule("rear.decklid-length", "Decklid length behind a slanted backlight", "advisory",
+      needs=("rear.decklid_length", "dimensions.length"),
+      thresholds=(Threshold("share", "5 %", "%", "decklid length / vehicle length below which the tail is too short "
+                                                  "for the backlight flow to reattach", DECKLID_SOURCE),),
+      sources=(DECKLID_SOURCE, Source("effect: 2-6 counts and some rear lift; recalled, not checked", "from memory")),
+      applies_if=slanted_rear)
+def decklid_length(sheet, ctx):
+    """
+    What it checks: the length of the decklid (trunk lid or tail deck) behind a slanted
+    backlight, as a share of the vehicle length.
+
+    Why it matters: on a notchback or a fastback with a short deck, the flow leaving the
+    backlight needs a surface to reattach to before the rear edge; a deck that is too short
+    lets the wake start at the base of the backlight, with more drag and rear lift.
+
+    How to fix: lengthen the decklid (move the backlight base forward or the rear edge
+    rearward), or raise the deck so that the backlight is shorter and flatter.
+
+    Known limits: the height of the decklid above the backlight base matters as much as its
+    length; the sheet records only the length and the decklid angle.
+    """
+    share = sheet.get("rear.decklid_length") / sheet.get("dimensions.length")
+    measured = f"{share * 100:.1f} % of the length ({sheet.get('rear.decklid_length') * 1000:.0f} mm)"
+    limit = f">= {ctx['share'] * 100:.0f} %"
+    if share < ctx["share"]:
+        return minor("the decklid is short: the backlight flow has no deck to reattach to", measured=measured,
+                     limit=limit, margin=f"{(share - ctx['share']) * 100:+.1f} %", counts=counts_range(2, 6),
+                     cl_rear=-0.02)
+    return passed("the decklid gives the backlight flow room to reattach", measured=measured, limit=limit)
+
+
+@rule("rear.decklid-angle", "Decklid falling toward the rear edge", "advisory",
+      needs=("rear.decklid_angle",),
+      thresholds=(Threshold("falling", "8 deg", "deg", "decklid fall above which the tail loses its kick-up effect",
+                            DECKLID_SOURCE),),
+      sources=(DECKLID_SOURCE, Source("effect: 1-4 counts and 0.01-0.04 more rear lift; recalled, not checked",
+                                      "from memory")))
+def decklid_angle(sheet, ctx):
+    """
+    What it checks: how steeply the decklid falls toward the rear edge in the side view.
+
+    Why it matters: a decklid that falls rearward turns the flow downward over the tail,
+    like an upside-down kick-up: the base pressure falls and rear lift rises. A level deck,
+    or one that rises slightly to a sharp edge, does the opposite.
+
+    How to fix: level the decklid, or end it in a kick-up or a spoiler lip with a sharp edge.
+
+    Known limits: one chord angle; a deck that falls and then kicks up at the edge is judged
+    by its chord only, and the spoiler rule judges the kick-up.
+    """
+    degrees, falling = math.degrees(sheet.get("rear.decklid_angle")), math.degrees(ctx["falling"])
+    measured = f"{degrees:+.1f} deg"
+    if degrees > falling:
+        return minor("the decklid falls steeply toward the rear edge: rear lift rises", measured=measured,
+                     limit=f"<= {falling:.0f} deg", margin=f"{degrees - falling:+.1f} deg", counts=counts_range(1, 4),
+                     cl_rear=-0.02)
+    return passed("the decklid is level enough to hold the tail flow", measured=measured, limit=f"<= {falling:.0f} deg")
+
+
+BASE_SOURCE = Source("base drag = -Cp_base x A_base / A with a base pressure coefficient of about -0.15 to -0.25 on "
+                     "passenger cars; Hucho 1998 (chapter not checked), recalled, not checked", "from memory")
+BASE_PRESSURE = (0.15, 0.25)  # -Cp of the base, passenger cars (BASE_SOURCE)
+
+
+@rule("rear.base-area", "Base (wake) area against the frontal area", "advisory",
+      needs=("rear.base_area", "dimensions.frontal_area"), optional=("vehicle.class",),
+      thresholds=(Threshold("car_share", "40 %", "%", "base area / frontal area above which a car's base is large",
+                            COMMON),
+                  Threshold("box_share", "85 %", "%", "the same for upright bodies (vans, SUVs, pickups, crossovers)",
+                            COMMON)),
+      sources=(BASE_SOURCE, HUCHO))
+def base_area(sheet, ctx):
+    """
+    What it checks: the area of the near-vertical rear face (the base the wake starts from)
+    as a share of the frontal area, with a larger allowance for upright bodies.
+
+    Why it matters: the base sits in the low pressure of the wake; its drag is roughly the
+    base pressure coefficient times the base area. Every square decimetre taken off the
+    base by tapering the sides, the roof or the diffuser is drag saved.
+
+    How to fix: shrink the base with side and roof tapers and a diffuser, ending each in a
+    sharp edge; keep the base flat and free of pockets.
+
+    Known limits: the base pressure itself depends on the tapers and the underbody flow;
+    the estimate assumes a usual car base pressure.
+    """
+    share = sheet.get("rear.base_area") / sheet.get("dimensions.frontal_area")
+    limit_share = ctx["box_share"] if sheet.get("vehicle.class") in BOX_CLASSES else ctx["car_share"]
+    measured = f"{share * 100:.0f} % of A ({sheet.get('rear.base_area'):.2f} m^2)"
+    limit = f"<= {limit_share * 100:.0f} %"
+    if share > limit_share:
+        excess = share - limit_share
+        return minor("the base is large: its wake pressure acts on a large area", measured=measured, limit=limit,
+                     margin=f"{excess * 100:+.0f} %",
+                     counts=counts_range(1000 * BASE_PRESSURE[0] * excess, 1000 * BASE_PRESSURE[1] * excess))
+    return passed("the base is compact", measured=measured, limit=limit)

@@ -6,16 +6,25 @@ import math
 
 from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
-DIFFUSER_SOURCE = Source("Cooper, Bertenyi, Dutil, Syms and Sovran, SAE 980030 (1998): bluff-body diffusers in "
-                         "ground effect gain up to about 10 deg, then separate; recalled", "from memory")
+DIFFUSER_SOURCE = Source("Ruhrmann and Zhang, 'Influence of diffuser angle on a bluff body in ground effect', J. "
+                         "Fluids Eng., ASME (2003), doi 10.1115/1.1537252 (title/authors/DOI and abstract checked): "
+                         "5 and 10 deg diffusers stay well-behaved, 15-20 deg show separation and hysteresis; the 10 and "
+                         "12 deg limits are placed between those tested angles", "published")
+COOPER = Source("Cooper, Bertenyi, Dutil, Syms and Sovran, 'The aerodynamic performance of automotive underbody "
+                "diffusers', SAE 980030 (1998, SP-1318) (title/authors/year/venue confirmed on a copy of the cover "
+                "page): diffuser performance depends on its area ratio and length, not its angle alone; the ratio "
+                "limits used here are recalled, not checked", "published")
 
 
 @rule("underbody.panel-coverage", "Underbody panel coverage", "warning",
       needs=("underbody.panel_coverage",),
+      optional=("powertrain.kind",),
       thresholds=(Threshold("target", "80 %", "%", "coverage a current car reaches", COMMON),
+                  Threshold("battery_target", "90 %", "%", "coverage an electric vehicle's flat battery floor makes "
+                                                           "easy to reach", COMMON),
                   Threshold("poor", "50 %", "%", "coverage below which the underbody is largely open", COMMON)),
       sources=(COMMON, Source("effect: a fully panelled floor saves 20-50 counts against an open one; from memory "
-                              "(Hucho 1998, ch. 4, underbody)", "from memory")),
+                              "(Hucho 1998, underbody, chapter not checked)", "from memory")),
       sensitivity=Sensitivity("underbody.panel_coverage", -0.35, "%", (25, 100), "target", Source(
           "the middle of the rule's 20-50 counts for a fully panelled floor, per % of coverage",
           "from memory")))
@@ -30,19 +39,24 @@ def panel_coverage(sheet, ctx):
     How to fix: close the floor with panels from the front air dam to the rear axle, keeping
     openings only where cooling or service needs them; seal the gaps between panels.
 
-    Known limits: coverage alone does not say how smooth the panels are or how they end.
+    An electric vehicle's battery pack forms a flat floor between the axles, so its target
+    is higher (90 %).
+
+    Known limits: coverage alone does not say how smooth the panels are or how they end;
+    the battery floor is assumed for every electric vehicle.
     """
     coverage = sheet.get("underbody.panel_coverage")
-    gap = ctx["target"] - coverage
+    target = ctx["battery_target"] if sheet.get("powertrain.kind") == "electric" else ctx["target"]
+    gap = target - coverage
     measured = f"{coverage * 100:.0f} %"
     if coverage < ctx["poor"]:
-        return major("the underbody is largely open", measured=measured, limit=f">= {ctx['target'] * 100:.0f} %",
+        return major("the underbody is largely open", measured=measured, limit=f">= {target * 100:.0f} %",
                      margin=f"{-gap * 100:+.0f} %", counts=counts_range(20 * gap, 50 * gap),
                      cl_front=-0.01, cl_rear=-0.01)
-    if coverage < ctx["target"]:
-        return minor("the underbody panels leave parts open", measured=measured, limit=f">= {ctx['target'] * 100:.0f} %",
+    if coverage < target:
+        return minor("the underbody panels leave parts open", measured=measured, limit=f">= {target * 100:.0f} %",
                      margin=f"{-gap * 100:+.0f} %", counts=counts_range(20 * gap, 50 * gap))
-    return passed("the underbody is well covered", measured=measured, limit=f">= {ctx['target'] * 100:.0f} %")
+    return passed("the underbody is well covered", measured=measured, limit=f">= {target * 100:.0f} %")
 
 
 @rule("underbody.diffuser-angle", "Diffuser angle the flow can follow", "failure",
@@ -50,8 +64,8 @@ def panel_coverage(sheet, ctx):
       thresholds=(Threshold("separation", "12 deg", "deg", "angle above which the diffuser flow separates",
                             DIFFUSER_SOURCE),
                   Threshold("edge", "10 deg", "deg", "angle above which separation is near", DIFFUSER_SOURCE)),
-      sources=(DIFFUSER_SOURCE, Source("effect: a separated diffuser loses 5-20 counts and its downforce; from "
-                                       "memory", "from memory")),
+      sources=(DIFFUSER_SOURCE, COOPER, Source("effect: a separated diffuser loses 5-20 counts and its downforce; "
+                                              "recalled, not checked", "from memory")),
       sensitivity=Sensitivity("underbody.diffuser_angle", 2.0, "deg", (8, 16), "edge", Source(
           "about 2 counts per deg steeper where the diffuser flow starts to separate (the rule's 5-20 counts over "
           "the separation)", "from memory")))
@@ -85,7 +99,8 @@ def diffuser_angle(sheet, ctx):
 
 @rule("underbody.diffuser-exposed", "Parts standing in the diffuser flow", "warning",
       needs=("underbody.diffuser_exposed_parts",),
-      sources=(Source("effect: 2-5 counts per exposed part (exhaust, tow eye, links); from memory", "from memory"),))
+      sources=(Source("effect: 2-5 counts per exposed part (exhaust, tow eye, links); from memory", "from memory"),
+               COOPER))
 def diffuser_exposed(sheet, ctx):
     """
     What it checks: the number of parts (exhaust, tow eye, suspension links, spare-wheel
@@ -96,7 +111,8 @@ def diffuser_exposed(sheet, ctx):
 
     How to fix: move or cover the parts (tuck the exhaust, cover the tow eye, panel the links).
 
-    Known limits: parts differ in size; the estimate counts them equally.
+    Known limits: the feature is a count of parts, not a fraction; parts differ in size and
+    the estimate counts them equally.
     """
     parts = int(round(sheet.get("underbody.diffuser_exposed_parts")))
     if parts > 0:
@@ -132,3 +148,101 @@ def pitch(sheet, ctx):
                      cl_front=-0.02 * abs(degrees))
     return passed("the underbody pitch is level or nose-down", measured=f"{degrees:+.1f} deg",
                   limit=f">= {math.degrees(ctx['nose_up']):+.1f} deg")
+
+
+@rule("underbody.diffuser-area-ratio", "Diffuser area ratio (length with ground clearance)", "warning",
+      needs=("underbody.diffuser_angle", "underbody.diffuser_length", "dimensions.ground_clearance"),
+      thresholds=(Threshold("useful", "1.2", "", "exit / inlet height below which the diffuser recovers little",
+                            COOPER),
+                  Threshold("separation", "2.2", "", "exit / inlet height above which the diffuser flow separates",
+                            COOPER)),
+      sources=(COOPER, Source("effect: 3-10 counts and part of the rear downforce; recalled, not checked",
+                              "from memory")))
+def diffuser_area_ratio(sheet, ctx):
+    """
+    What it checks: the diffuser's area ratio, its exit height over its inlet height:
+    (h + L tan(angle)) / h with the ground clearance h and the diffuser length L.
+
+    Why it matters: how much pressure a diffuser recovers, and whether its flow stays
+    attached, depends on how much it expands the underbody flow over its length, not on its
+    angle alone: a long shallow diffuser under a low car can expand the flow as much as a
+    short steep one. Too little expansion recovers little; too much separates.
+
+    How to fix: above the limit, shorten the ramp or flatten it; below it, lengthen the
+    ramp at the same angle or lower the ride height. Add side fences to keep the flow
+    two-dimensional.
+
+    Known limits: the ground clearance between the axles stands for the diffuser's inlet
+    height; wheel wakes and exposed parts reduce the usable ratio.
+    """
+    height = sheet.get("dimensions.ground_clearance")
+    rise = sheet.get("underbody.diffuser_length") * math.tan(sheet.get("underbody.diffuser_angle"))
+    ratio = (height + rise) / height if height > 0 else float("inf")
+    measured = f"area ratio {ratio:.2f} ({rise * 1000:.0f} mm rise on {height * 1000:.0f} mm clearance)"
+    limit = f"{ctx['useful']:.1f}-{ctx['separation']:.1f}"
+    if ratio > ctx["separation"]:
+        return major("the diffuser expands the underbody flow more than it can follow", measured=measured,
+                     limit=limit, margin=f"{ratio - ctx['separation']:+.2f}", counts=counts_range(3, 10),
+                     cl_rear=-0.03)
+    if ratio < ctx["useful"]:
+        return minor("the diffuser expands the flow too little to recover much pressure", measured=measured,
+                     limit=limit, margin=f"{ratio - ctx['useful']:+.2f}", counts=counts_range(1, 4), cl_rear=-0.01)
+    return passed("the diffuser area ratio is in the useful range", measured=measured, limit=limit)
+
+
+@rule("underbody.diffuser-end-step", "Step from the diffuser end to the base", "advisory",
+      needs=("underbody.diffuser_end_step",),
+      thresholds=(Threshold("step", "30 mm", "mm", "step height above which the diffuser ends in a base pocket",
+                            COMMON),),
+      sources=(COMMON, Source("effect: 1-5 counts; recalled, not checked", "from memory")))
+def diffuser_end_step(sheet, ctx):
+    """
+    What it checks: the vertical step from the diffuser's trailing edge up to the lower edge
+    of the rear base (bumper).
+
+    Why it matters: a diffuser should hand its flow to the wake at the base's lower edge;
+    a tall step behind it forms a pocket of low pressure on the bumper's underside and adds
+    base area exactly where the diffuser was meant to raise the pressure.
+
+    How to fix: run the diffuser out to the bumper's lower edge, or close the step with a
+    panel that continues the ramp.
+
+    Known limits: one height on the centreline; the step may vary across the width.
+    """
+    step = sheet.get("underbody.diffuser_end_step")
+    measured, limit = f"{step * 1000:.0f} mm", f"<= {ctx['step'] * 1000:.0f} mm"
+    if step > ctx["step"]:
+        return minor("the diffuser ends below a tall step: a low-pressure pocket on the bumper", measured=measured,
+                     limit=limit, margin=f"{(step - ctx['step']) * 1000:+.0f} mm", counts=counts_range(1, 5))
+    return passed("the diffuser runs out into the base edge", measured=measured, limit=limit)
+
+
+@rule("underbody.nose-rake", "Front underbody rake ahead of the front axle", "advisory",
+      needs=("underbody.nose_rake",),
+      thresholds=(Threshold("minimum", "1 deg", "deg", "rake below which the nose scoops air under the car", COMMON),
+                  Threshold("maximum", "12 deg", "deg", "rake above which the flow separates under the nose", COMMON)),
+      sources=(COMMON, Source("effect: 1-4 counts and 0.01-0.03 of front lift; recalled, not checked", "from memory")))
+def nose_rake(sheet, ctx):
+    """
+    What it checks: the upward inclination of the front underbody between the air dam and
+    the front axle.
+
+    Why it matters: a front underbody that rises toward the nose accelerates the flow
+    entering under the car gently and lowers front lift; a flat or falling one lets the
+    nose scoop air under the car, while a steep one separates behind the air dam.
+
+    How to fix: shape the front underbody panel with a rake of 2-10 deg from the axle to the
+    air dam.
+
+    Known limits: static, at curb ride height; the air dam depth changes how much the rake matters.
+    """
+    degrees = math.degrees(sheet.get("underbody.nose_rake"))
+    low, high = math.degrees(ctx["minimum"]), math.degrees(ctx["maximum"])
+    measured, limit = f"{degrees:+.1f} deg", f"{low:.0f}-{high:.0f} deg"
+    if degrees < low:
+        return minor("the front underbody does not rise toward the nose: more front lift", measured=measured,
+                     limit=limit, margin=f"{degrees - low:+.1f} deg", counts=counts_range(1, 4), cl_front=-0.02)
+    if degrees > high:
+        return minor("the front underbody rises steeply: the flow separates behind the air dam", measured=measured,
+                     limit=limit, margin=f"{degrees - high:+.1f} deg", counts=counts_range(1, 3))
+    return passed("the front underbody rake is in the useful range", measured=measured, limit=limit)

@@ -4,16 +4,24 @@ from __future__ import annotations
 
 from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
-WHEEL_SOURCE = Source("Wickern, Zwicker and Pfadenhauer, SAE 970133 (1997), and Landstrom, Walker and Lofdahl, "
-                      "SAE 2009-01-0778: rim design changes drag by 10-20 counts; recalled", "from memory")
+WHEEL_SOURCE = Source("rim design changes a car's drag by 10-20 counts: recalled, not checked. Looked for: SAE 970133 "
+                      "(Wickern, Zwicker and Pfadenhauer 1997) is confirmed on a copy of its cover to be on rotating "
+                      "wheels and tunnel technique, not rim openness, so it is no longer cited here; SAE 2009-01-0778 "
+                      "was not found; SAE 2010-01-0756 (abstract checked on the SAE page, authors not checked) "
+                      "confirms on-road drag benefits of wheel and wheel-cover designs", "from memory")
+WASCHLE = Source("Waschle, 'The influence of rotating wheels on vehicle aerodynamics - numerical and experimental "
+                 "investigations', SAE 2007-01-0107 (title/author/year/venue and abstract checked on the SAE page): "
+                 "several rim geometries compared, rotating and stationary", "published")
+REFERENCE_RIM = 18 * 0.0254  # m: the rim size the counts per openness were recalled for (from memory)
 
 
 @rule("wheels.rim-openness", "Rim openness", "warning",
       needs=("wheels.rim_openness",),
       thresholds=(Threshold("open", "35 %", "%", "open share above which the rims pump air", WHEEL_SOURCE),
                   Threshold("closed", "20 %", "%", "open share a low-drag rim reaches", WHEEL_SOURCE)),
-      sources=(WHEEL_SOURCE, Source("effect: about 3-6 counts per 10 % of openness closed; from memory",
-                                    "from memory")),
+      optional=("wheels.rim_diameter",),
+      sources=(WHEEL_SOURCE, WASCHLE, Source("effect: about 3-6 counts per 10 % of openness closed on 18 inch rims, "
+                                             "scaled with the rim disc area; recalled, not checked", "from memory")),
       sensitivity=Sensitivity("wheels.rim_openness", 0.45, "%", (10, 60), "closed", Source(
           "the middle of about 3-6 counts per 10 % of openness", "from memory")))
 def rim_openness(sheet, ctx):
@@ -30,10 +38,12 @@ def rim_openness(sheet, ctx):
     keeping enough opening for brake cooling (check with the brake team).
 
     Known limits: the spoke shape and the rim's outer lip matter beside the open share;
-    brake cooling sets a floor.
+    brake cooling sets a floor. The estimate scales with the rim disc area when the rim
+    diameter is given.
     """
     openness = sheet.get("wheels.rim_openness")
-    closable = openness - ctx["closed"]
+    size = (sheet.get("wheels.rim_diameter") or REFERENCE_RIM) / REFERENCE_RIM
+    closable = (openness - ctx["closed"]) * size ** 2
     measured = f"{openness * 100:.0f} % open"
     if openness > ctx["open"]:
         return major("the rims are open: they pump wheelhouse air into the side flow", measured=measured,
@@ -167,3 +177,70 @@ def rear_arch_exit(sheet, ctx):
                      counts=counts_range(2, 6))
     return passed("the rear arch trailing edge is sharp", measured=f"{radius * 1000:.0f} mm",
                   limit=f"<= {ctx['radius'] * 1000:.0f} mm")
+
+
+TYRE_SOURCE = Source("wider tyres raise drag by roughly 1-2 counts per 10 mm of section width on a passenger car; "
+                     "recalled, not checked", "from memory")
+
+
+@rule("wheels.tyre-width", "Tyre width and the wheel wake", "advisory",
+      needs=("wheels.tyre_width", "dimensions.width"), optional=("front.air_curtains", "wheels.front_deflector_height"),
+      thresholds=(Threshold("share", "12.5 %", "%", "tyre width / vehicle width above which the wheel wakes widen",
+                            TYRE_SOURCE),
+                  Threshold("deflector", "15 mm", "mm", "front deflector height that counts as wake treatment",
+                            COMMON)),
+      sources=(TYRE_SOURCE, COMMON))
+def tyre_width(sheet, ctx):
+    """
+    What it checks: the tyre section width as a share of the vehicle width, and whether a
+    wide tyre's wake is treated (air curtains or deflectors ahead of the front tyres).
+
+    Why it matters: the tyres stand in the flow below the body; a wider tyre presents more
+    frontal area and sheds a wider wake along the side and into the underbody.
+
+    How to fix: choose the narrowest tyre the handling and braking targets allow, and treat
+    the wake with air curtains or deflectors shaped to the tyre width.
+
+    Known limits: the tyre's shoulder and sidewall shape matter as much (see the
+    tyre-shoulder rule); the wake treatment halves the estimate, a rough figure.
+    """
+    width = sheet.get("wheels.tyre_width")
+    share = width / sheet.get("dimensions.width")
+    treated = bool(sheet.get("front.air_curtains")) or \
+        (sheet.get("wheels.front_deflector_height") or 0.0) >= ctx["deflector"]
+    measured = f"{width * 1000:.0f} mm = {share * 100:.1f} % of the width; wake {'treated' if treated else 'untreated'}"
+    limit = f"<= {ctx['share'] * 100:.1f} %"
+    if share > ctx["share"]:
+        excess_mm = (share - ctx["share"]) * sheet.get("dimensions.width") * 1000
+        scale = 0.5 if treated else 1.0
+        return minor("the tyres are wide for the car: wider wheel wakes", measured=measured, limit=limit,
+                     margin=f"{(share - ctx['share']) * 100:+.1f} %",
+                     counts=counts_range(0.1 * excess_mm * scale, 0.2 * excess_mm * scale))
+    return passed("the tyre width suits the car", measured=measured, limit=limit)
+
+
+@rule("wheels.tyre-shoulder", "Tyre shoulder shape", "advisory",
+      needs=("wheels.tyre_shoulder",),
+      sources=(Source("rounded tyre shoulders and smooth sidewalls lower wheel drag by a few counts against square "
+                      "shoulders; recalled, not checked", "from memory"),
+               Source("effect: 1-4 counts; recalled, not checked", "from memory")))
+def tyre_shoulder(sheet, ctx):
+    """
+    What it checks: whether the tyres fitted have rounded or square shoulders (the
+    transition from tread to sidewall).
+
+    Why it matters: the flow leaves the front tyre at its shoulders; a square shoulder fixes
+    a wide separation and a wide wake, a rounded one lets the flow turn around the tyre a
+    little further.
+
+    How to fix: choose a tyre with a rounded shoulder and a smooth, lettering-free upper
+    sidewall, with the tyre supplier.
+
+    Known limits: tyre choice is ruled by grip, wear, noise and rolling resistance first;
+    the drag effect is small and varies between tyres.
+    """
+    shoulder = sheet.get("wheels.tyre_shoulder")
+    if shoulder == "square":
+        return minor("square tyre shoulders widen the tyre wake", measured=shoulder, limit="rounded",
+                     counts=counts_range(1, 4))
+    return passed("the tyre shoulders are rounded", measured=shoulder, limit="rounded")

@@ -12,12 +12,12 @@ from aeroreview.rules import COMMON, HUCHO, Sensitivity, Source, Threshold, coun
       thresholds=(Threshold("upright", "40 deg", "deg", "inclination from horizontal above which the screen is upright",
                             HUCHO),
                   Threshold("steep", "33 deg", "deg", "inclination from horizontal above which gains remain", HUCHO)),
-      sources=(Source("Hucho 1998, ch. 4: drag falls as the windshield is laid back to about 30 deg from horizontal "
-                      "(60 deg rake), with little gain beyond; recalled", "from memory"),
+      sources=(Source("Hucho 1998 (chapter not checked): drag falls as the windshield is laid back to about 30 deg "
+                      "from horizontal (60 deg rake), with little gain beyond; recalled, not checked", "from memory"),
                Source("effect: about 1 count per degree above 33 deg, from memory", "from memory")),
-      applies_to=("sedan", "fastback", "hatchback", "estate", "suv", "sports"),
+      applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"),
       sensitivity=Sensitivity("windshield.angle", 1.0, "deg", (30, 50), "steep", Source(
-          "about 1 count per degree above 33 deg (Hucho 1998, ch. 4, recalled)", "from memory")))
+          "about 1 count per degree above 33 deg (Hucho 1998, chapter not checked, recalled)", "from memory")))
 def windshield_angle(sheet, ctx):
     """
     What it checks: the windshield inclination from horizontal in the side view.
@@ -52,7 +52,7 @@ def windshield_angle(sheet, ctx):
       needs=("windshield.a_pillar_radius",),
       thresholds=(Threshold("sharp", "15 mm", "mm", "radius below which the pillar flow separates", COMMON),
                   Threshold("comfortable", "25 mm", "mm", "radius with margin at yaw", COMMON)),
-      sources=(COMMON, Source("effect: 2-8 counts, and wind noise; from memory (Hucho 1998, A-pillar vortex)",
+      sources=(COMMON, Source("effect: 2-8 counts, and wind noise; from memory (Hucho 1998, A-pillar vortex, chapter not checked)",
                               "from memory")))
 def a_pillar_radius(sheet, ctx):
     """

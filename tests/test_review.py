@@ -64,7 +64,9 @@ def test_problem_revision_fails_and_clean_revision_passes(demo, cli):
     _, data = demo
     problem, clean = sheet_of(data, "tessel", "r1"), sheet_of(data, "tessel", "r2")
     assert problem["failing"] and not clean["failing"]
-    assert clean["score"] == 100 and clean["coverage"] == 1
+    # clean: no finding at warning or above (advisories may appear as rules are added), full coverage
+    assert not [f for f in clean["findings"] if f["status"] in ("warning", "failure")]
+    assert clean["score"] >= 95 and clean["coverage"] == 1
     assert problem["score"] < 75
     assert cli("check", VEHICLES / "tessel" / "r1.yaml").code == 1
     assert cli("check", VEHICLES / "tessel" / "r2.yaml").code == 0

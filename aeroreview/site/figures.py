@@ -14,6 +14,8 @@ from __future__ import annotations
 import hashlib
 import io
 import json
+import os
+import tempfile
 from pathlib import Path
 
 import matplotlib
@@ -29,8 +31,10 @@ OKABE_ITO = {"orange": "#E69F00", "sky": "#56B4E9", "green": "#009E73", "yellow"
 STATUS_COLOURS = {"pass": OKABE_ITO["green"], "advisory": OKABE_ITO["sky"], "warning": OKABE_ITO["orange"],
                   "failure": OKABE_ITO["vermillion"], "not assessed": OKABE_ITO["grey"]}
 
+# "text.parse_math": False draws every text literally: sheet text such as "Price $\\foo$" is
+# neither typeset as math nor able to stop a build with a mathtext parse error.
 STYLE = {
-    "svg.hashsalt": "aeroreview", "svg.fonttype": "none", "font.size": 9, "axes.grid": True,
+    "text.parse_math": False, "svg.hashsalt": "aeroreview", "svg.fonttype": "none", "font.size": 9, "axes.grid": True,
     "grid.alpha": 0.3, "axes.spines.top": False, "axes.spines.right": False, "figure.dpi": 100,
 }
 
@@ -281,7 +285,8 @@ class FigureCache:
         self.drawn += 1
         if cached:
             cached.parent.mkdir(parents=True, exist_ok=True)
-            temporary = cached.with_suffix(".tmp")
-            temporary.write_bytes(content)
-            temporary.replace(cached)
+            handle, temporary = tempfile.mkstemp(prefix=f".{name}.", suffix=".tmp", dir=cached.parent)
+            with os.fdopen(handle, "wb") as stream:  # a unique name: concurrent builds share the cache
+                stream.write(content)
+            os.replace(temporary, cached)
         return name, content

@@ -1,0 +1,26 @@
+"""Figures draw sheet text literally: matplotlib's math syntax in a name or label is just text.
+
+Before, ``name: "Price $\\foo$ tag"`` passed ``check`` but stopped ``site build`` with a
+mathtext ParseFatalException, and ``$x^2$`` was typeset as math (issue 14, item 6).
+"""
+
+from __future__ import annotations
+
+from html import unescape
+
+from conftest import run_cli
+from site_helpers import copy_knowledge_base
+
+
+def test_math_syntax_in_sheet_text_is_drawn_literally(tmp_path):
+    kb = copy_knowledge_base(tmp_path / "kb")
+    for revision in ("r1", "r2"):
+        sheet = kb / f"vehicles/tessel/{revision}.yaml"
+        text = sheet.read_text(encoding="utf-8").replace("name: Maroska Tessel", r"name: 'Price $\foo$ tag $x^2$'")
+        sheet.write_text(text.replace("label: steady RANS", r"label: $\frac{a}{b}$ steady RANS"), encoding="utf-8")
+    assert run_cli("check", kb / "vehicles").code in (0, 1)
+    run = run_cli("site", "build", "--config", kb / "mkdocs.yml", "--output", tmp_path / "out")
+    assert run.code == 0, run.err
+    figures = [unescape(p.read_text(encoding="utf-8")) for p in (tmp_path / "out").rglob("*.svg")]
+    assert any(r"Price $\foo$ tag $x^2$: revision trends" in svg for svg in figures)  # title, as typed
+    assert any(r"Yaw sweep: $\frac{a}{b}$ steady RANS" in svg for svg in figures)
