@@ -257,7 +257,7 @@ J1252 = Source("SAE J1252, wind tunnel test procedure for trucks and buses (1981
                "aeroreview.calc.wind", "from memory")
 
 
-@rule("stability.yaw-drag-rise", "Rise of drag with yaw", "warning", needs=(),
+@rule("stability.yaw-drag-rise", "Rise of drag with yaw", "warning", needs=(), region="rear",
       thresholds=(Threshold("moderate", "10 %", "%", "rise of Cd from 0 to 10 deg that needs attention",
                             YAW_DRAG_SOURCE),
                   Threshold("steep", "20 %", "%", "rise of Cd from 0 to 10 deg that is too steep", YAW_DRAG_SOURCE)),
