@@ -68,6 +68,7 @@ class Feature:
     choices: tuple[str, ...] = ()
     required: bool = False
     example: object = None  # a value shown in the template (required features only)
+    sign: str = ""  # which way is positive, for every quantity that can be negative
     integer: bool = False
     without_rule: str = ""  # why the feature is kept though no rule reads it (the review or calc uses it)
 
@@ -193,7 +194,8 @@ FEATURES: tuple[Feature, ...] = (
        "z of the point with the smallest x on the centreline section."),
     _q("front.hood_angle", "deg", (-20.0, 60.0), (5.0, 15.0),
        "Hood inclination in the side view, positive rising rearward.",
-       "Chord angle from the hood leading edge to the cowl, from horizontal."),
+       "Chord angle from the hood leading edge to the cowl, from horizontal.",
+       sign="positive when the hood rises toward the cowl"),
     _q("front.air_dam_clearance", "mm", (0.0, 800.0), (70.0, 260.0),
        "Height above ground of the lowest edge of the front air dam (spoiler lip).",
        "Smallest z of the front bumper lower edge on the centreline, curb ride height."),
@@ -226,7 +228,8 @@ FEATURES: tuple[Feature, ...] = (
        "Fit a circle to the centreline section over the region of highest curvature at the roof end."),
     _q("rear.decklid_angle", "deg", (-40.0, 60.0), (-5.0, 15.0),
        "Decklid (trunk lid) inclination in the side view, positive falling rearward.",
-       "Chord angle of the decklid on the centreline section, from horizontal."),
+       "Chord angle of the decklid on the centreline section, from horizontal.",
+       sign="positive when the decklid falls toward the rear"),
     _q("rear.decklid_length", "mm", (0.0, 2000.0), (150.0, 700.0),
        "Length of the decklid from the backlight base to the rear edge.", "x extent on the centreline section."),
     _q("rear.spoiler_height", "mm", (0.0, 400.0), (0.0, 100.0),
@@ -234,10 +237,12 @@ FEATURES: tuple[Feature, ...] = (
        "Normal height of the trailing edge above the surface line extended from ahead of it."),
     _q("rear.side_taper_angle", "deg", (-20.0, 45.0), (0.0, 15.0),
        "Plan-view boat-tail angle of the body sides over the last part of the body.",
-       "Angle to the x axis of the side line in the horizontal section at belt height over the last 300 mm."),
+       "Angle to the x axis of the side line in the horizontal section at belt height over the last 300 mm.",
+       sign="positive when the sides close in toward the tail"),
     _q("rear.roof_taper_angle", "deg", (-20.0, 45.0), (0.0, 15.0),
        "Side-view drop angle of the roof over its last part (boat-tail in elevation).",
-       "Angle to horizontal of the roof line over the last 300 mm before the rear edge or backlight."),
+       "Angle to horizontal of the roof line over the last 300 mm before the rear edge or backlight.",
+       sign="positive when the roof falls toward the rear"),
     _q("rear.separation_edge_radius", "mm", (0.0, 500.0), (0.0, 30.0),
        "Radius of the rear edges where the flow is meant to leave the body (tail-lamp corners, decklid end).",
        "Fit a circle to a section normal to the edge; sharp edges are 0 to 5 mm."),
@@ -265,7 +270,8 @@ FEATURES: tuple[Feature, ...] = (
        "Covered area / plan area inside the wheel tracks; 0.8 or '80 %'."),
     _q("underbody.nose_rake", "deg", (-20.0, 40.0), (0.0, 10.0),
        "Upward inclination of the front underbody ahead of the front axle, from horizontal.",
-       "Angle of the underbody line on the centreline from the air dam to the front axle plane."),
+       "Angle of the underbody line on the centreline from the air dam to the front axle plane.",
+       sign="positive when the underbody rises toward the nose"),
     _q("underbody.diffuser_angle", "deg", (0.0, 45.0), (0.0, 18.0),
        "Upsweep angle of the rear underbody (diffuser) from horizontal.",
        "Chord angle of the underbody line on the centreline from the diffuser start to the rear edge."),
@@ -282,7 +288,8 @@ FEATURES: tuple[Feature, ...] = (
        "base above it."),
     _q("underbody.pitch", "deg", (-5.0, 5.0), (-1.0, 1.0),
        "Static pitch of the underbody, positive nose-down.",
-       "Angle of the line from the front to the rear underbody datum points at curb ride height."),
+       "Angle of the line from the front to the rear underbody datum points at curb ride height.",
+       sign="positive nose-down (the front datum lower than the rear)"),
     # -- wheels and wheelhouses ------------------------------------------------------
     _q("wheels.rim_diameter", "inch", (10.0, 28.0), (16.0, 21.0),
        "Rim diameter.", "Nominal rim size from the wheel specification."),

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import re
 import sys
 import textwrap
 from pathlib import Path
@@ -16,7 +17,7 @@ from pathlib import Path
 from aeroreview import __version__, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError, clean
-from aeroreview.rules import REGIONS, ZONES, all_rules
+from aeroreview.rules import REGIONS, RULES_HINT, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
 from aeroreview.sheet import load_fleet, sheet_files, suggest
 
@@ -24,7 +25,16 @@ EXIT_CLEAN, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 
 
 class _Parser(argparse.ArgumentParser):
-    """argparse that raises instead of exiting, so every usage error takes one path."""
+    """argparse that raises instead of exiting, so every usage error takes one path.
+
+    A value that starts with a minus and a digit (``--yaw -10:0.35,0:0.30``) is a value,
+    not an option: no option of ours looks like that, and argparse's own test knows only
+    plain negative numbers.
+    """
+
+    def __init__(self, *args, **kwargs):
+        super().__init__(*args, **kwargs)
+        self._negative_number_matcher = re.compile(r"^-\.?\d")
 
     def error(self, message):
         raise UsageError(f"{self.prog}: {message}")
@@ -51,7 +61,7 @@ def _cmd_check(args) -> int:
     settings = load_settings(args.config)
     fail_on = args.fail_on or settings.fail_on
     fleet = load_fleet(args.paths or [settings.sheets_path])
-    problems = fleet.problems + review.waiver_problems(fleet)
+    problems = fleet.problems
     bad_files = {p.file for p in problems}
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
     counted = report.new_or_worse(reviews, report.load_baseline(args.baseline)) if args.baseline else None
@@ -136,7 +146,7 @@ def _cmd_explain(args) -> int:
     rules = all_rules()
     rule = rules.get(args.rule_id)
     if rule is None:
-        raise UsageError(f"unknown rule '{args.rule_id}'; {suggest(args.rule_id, rules)}")
+        raise UsageError(f"unknown rule '{args.rule_id}'; {suggest(args.rule_id, rules, RULES_HINT)}")
     print(f"{rule.id}: {rule.title}\nzone: {ZONES[rule.zone]}; default severity: {rule.severity}; "
           f"needs: {', '.join(rule.needs) or 'results only'}"
           + (f"; applies to: {', '.join(rule.applies_to)}" if rule.applies_to else "")
@@ -164,8 +174,9 @@ def _cmd_schema(args) -> int:
 
 def _cmd_new(args) -> int:
     path = Path(args.output or f"vehicles/{args.vehicle_id}/{args.revision}.yaml")
-    template.write(path, args.vehicle_id, args.vehicle_class, args.revision)
-    print(f"wrote {path}; fill it in, then run: aeroreview check {path}")
+    placeholders = template.write(path, args.vehicle_id, args.vehicle_class, args.revision)
+    print(f"wrote {path} with {placeholders} placeholders (<e.g. ...>) to replace with your vehicle's values;\n"
+          f"`aeroreview check {path}` refuses the sheet, as an input error, until every one is filled")
     return EXIT_CLEAN
 
 

@@ -335,7 +335,7 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
     buffer = io.StringIO()
     yaml.dump(data, buffer)
     new_text = buffer.getvalue()
-    from_document(yamldoc.parse(new_text, str(path)), path.parent)  # raises InputError: nothing written
+    from_document(yamldoc.parse(new_text, str(path)), path.parent, allow_placeholders=True)  # raises InputError: nothing written
     if report["replaced"]:
         backup = path.with_name(path.name + ".bak")
         number = 1

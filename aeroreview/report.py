@@ -140,8 +140,9 @@ def as_text(data: dict, color: bool) -> str:
                       f"{record['mean_abs_error_counts']:g} counts, bias {record['bias_counts']:+g} counts, "
                       f"{record['within_range_share'] * 100:.0f} % inside the predicted range")
     total_failing = sum(len(s["failing"]) for s in data["sheets"])
+    note = f"; recoverable figures: {ADDITIVITY_NOTE}" if data["sheets"] else ""
     console.print(f"{len(data['sheets'])} revision(s) reviewed, {total_failing} finding(s) fail the gate, "
-                  f"{len(data['errors'])} input error(s); recoverable figures: {ADDITIVITY_NOTE}")
+                  f"{len(data['errors'])} input error(s){note}")
     return buffer.getvalue()
 
 

@@ -25,11 +25,11 @@ from aeroreview.calc.forces import drag_force
 from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivities
 from aeroreview.estimate import Estimate, Frame, claim_of, estimate, frame_for, score
 from aeroreview.problems import Problem
-from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict, all_rules
+from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict
 from aeroreview.rules.data import CLASS_CD
 from aeroreview.rules.stability import axle_figures
 from aeroreview.settings import Settings, status_rank
-from aeroreview.sheet import Fleet, Sheet, suggest
+from aeroreview.sheet import Sheet
 from aeroreview.vehicle import measured_cd, vehicle_from_sheet
 
 UNSCORED_ZONES = ("data",)  # data quality feeds coverage and confidence, not the score
@@ -240,18 +240,6 @@ def _zone_score(zone: str, findings: list[Finding], claims, frame: Frame) -> Zon
     if assessed and zone not in UNSCORED_ZONES:
         value = score([c for c in claims if c.rule in ids], frame, {f.rule.region for f in mine if f.rule.region})
     return ZoneScore(zone, value, assessed, len(mine))
-
-
-def waiver_problems(fleet: Fleet) -> list[Problem]:
-    """Waivers naming a rule that does not exist are input errors."""
-    rules = all_rules()
-    problems = []
-    for sheet in fleet.sheets:
-        for waiver in sheet.waivers:
-            if waiver.rule not in rules:
-                problems.append(Problem(sheet.path, waiver.line, 1, f"waiver for unknown rule '{waiver.rule}'",
-                                        suggest(waiver.rule, rules)))
-    return problems
 
 
 def failing(review: Review, fail_on: str) -> list[Finding]:

@@ -28,7 +28,7 @@ from aeroreview.calc.air import Air, air_state
 from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
 from aeroreview.problems import InputError, UsageError
-from aeroreview.rules import SEVERITIES, STATUSES, Context, Rule, all_rules
+from aeroreview.rules import RULES_HINT, SEVERITIES, STATUSES, Context, Rule, all_rules
 from aeroreview.sheet import suggest
 from aeroreview.units import UnitProblem, to_si
 
@@ -176,7 +176,7 @@ def _overrides(data, error) -> dict[str, RuleOverride]:
     for rule_id, raw in data.items():
         where = ("rules", rule_id)
         if rule_id not in rules:
-            error(where, f"unknown rule '{rule_id}'", suggest(str(rule_id), rules), key=True)
+            error(where, f"unknown rule '{rule_id}'", suggest(str(rule_id), rules, RULES_HINT), key=True)
             continue
         if not isinstance(raw, dict):
             error(where, f"settings of {rule_id} must be a mapping", "severity, disabled or thresholds")

@@ -34,6 +34,7 @@ from aeroreview import catalogue, yamldoc
 from aeroreview.catalogue import Feature
 from aeroreview.paths import PathProblem, contained_file
 from aeroreview.problems import InputError, Problem, echo
+from aeroreview.rules import RULES_HINT, all_rules
 from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
 SLUG = re.compile(r"^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$")
@@ -46,6 +47,14 @@ TOP_LEVEL = ("id", "revision", "parent", "name", "reviewed", "reviewer",
              "features", "results", "waivers", "notes", "attachments", "geometry")
 SURFACE_SUFFIXES = (".stl", ".obj", ".ply", ".csv")
 MAX_GROUND = 1e6  # |ground| in file units: 1 km in mm, beyond any surface file (common practice)
+# A value still to be filled in: the template writes ``<e.g. 4.8 m>``, so no unfilled
+# template passes for a real sheet. Angle brackets never start a unit or a name.
+PLACEHOLDER = re.compile(r"^<[^<>\n]{0,200}>$")
+
+
+def is_placeholder(value) -> bool:
+    """Is ``value`` a template placeholder (``<...>``) rather than a reviewer's value?"""
+    return isinstance(value, str) and PLACEHOLDER.match(value.strip()) is not None
 
 
 @dataclass(frozen=True)
@@ -147,23 +156,42 @@ class Sheet:
         return f"{self.vehicle_id}@{self.revision}"
 
 
-def suggest(word: str, options) -> str:
-    """A did-you-mean hint for a mistyped key, or a pointer to the list of valid keys."""
-    close = difflib.get_close_matches(word, list(options), n=1, cutoff=0.6)
-    return f"did you mean '{close[0]}'?" if close else "see `aeroreview schema` for the valid keys"
+def suggest(word: str, options, elsewhere: str = "see `aeroreview schema` for the valid keys") -> str:
+    """A did-you-mean hint for a mistyped word; else the options when they are few, else where to look."""
+    options = [str(o) for o in options]
+    close = close_match(word, options)
+    if close:
+        return f"did you mean '{close}'?"
+    return f"choose one of {', '.join(options)}" if 0 < len(options) <= 8 else elsewhere
+
+
+def close_match(word: str, options) -> str | None:
+    """The option closest to a mistyped word, if one is close enough to be what was meant."""
+    close = difflib.get_close_matches(word, [str(o) for o in options], n=1, cutoff=0.6)
+    return close[0] if close else None
 
 
 class _Checker:
     """Walks one parsed document, collecting problems and building a :class:`Sheet`."""
 
-    def __init__(self, doc: yamldoc.Document, folder: Path):
+    def __init__(self, doc: yamldoc.Document, folder: Path, allow_placeholders: bool = False):
         self.doc = doc
         self.folder = folder
+        self.allow_placeholders = allow_placeholders
         self.problems: list[Problem] = []
         self.warnings: list[Problem] = []
 
     def error(self, path, message, hint="", key=False):
         self.problems.append(self.doc.problem(path, message, hint, key=key))
+
+    def placeholder_left(self, path, key, value) -> bool:
+        """Report a template placeholder still in place (True when ``value`` is one)."""
+        if not is_placeholder(value):
+            return False
+        if not self.allow_placeholders:
+            self.error(path, f"'{key}' still holds the template placeholder {echo(value)}",
+                       "write the real value in its place (the placeholder only shows the form)")
+        return True
 
     def warn(self, path, message, hint=""):
         self.warnings.append(self.doc.problem(path, message, hint, level="warning"))
@@ -177,6 +205,8 @@ class _Checker:
             return ""
         if isinstance(value, (int, float)) and not isinstance(value, bool):
             value = str(value)
+        if self.placeholder_left(path + (key,), key, value):
+            return ""
         if not isinstance(value, str):
             self.error(path + (key,), f"'{key}' must be text, got {type(value).__name__}", "write it as a quoted string")
             return ""
@@ -277,6 +307,8 @@ class _Checker:
         if raw is None:
             self.error(path, f"'{item.key}' has no value", f"write a value ({item.unit_label()}) or remove the line")
             return None
+        if self.placeholder_left(path, item.key, raw):
+            return None
         if item.kind == "flag":
             if not isinstance(raw, bool):
                 self.error(path, f"'{item.key}' must be true or false, got '{echo(raw)}'", "write true or false")
@@ -361,6 +393,8 @@ class _Checker:
             if rule and not RULE_ID.match(rule):
                 self.error(path + ("rule",), f"'{rule}' is not a rule id", "rule ids read zone.name, see `aeroreview rules`")
                 rule = ""
+            elif rule and rule not in all_rules():
+                self.error(path + ("rule",), f"waiver for unknown rule '{rule}'", suggest(rule, all_rules(), RULES_HINT))
             reason = self.text(raw, "reason", path, required=True, limit=2000)
             if rule and reason.strip():
                 out.append(Waiver(rule, reason, self.text(raw, "by", path, limit=200),
@@ -451,13 +485,29 @@ def _combinations(sheet: Sheet, doc: yamldoc.Document) -> list[Problem]:
     return problems
 
 
-def from_document(doc: yamldoc.Document, folder: Path) -> Sheet:
-    """Validate a parsed document; raise :class:`InputError` with every problem found."""
+def from_document(doc: yamldoc.Document, folder: Path, allow_placeholders: bool = False) -> Sheet:
+    """Validate a parsed document; raise :class:`InputError` with every problem found.
+
+    ``allow_placeholders`` passes a template's unfilled values (a merge into a fresh
+    template keeps the sheet as valid as it was, no more).
+    """
+    sheet, problems = check_document(doc, folder, allow_placeholders)
+    if problems:
+        raise InputError(problems)
+    return sheet
+
+
+def check_document(doc: yamldoc.Document, folder: Path, allow_placeholders: bool = False) -> tuple[Sheet, list[Problem]]:
+    """Validate a parsed document: the sheet built from what is valid, and every problem, in line order.
+
+    The sheet is returned even when there are problems, so the fleet checks (duplicates,
+    parents) still see it and a reviewer gets every stage's problems in one run.
+    """
     if not isinstance(doc.data, dict):
         kind = "a list" if isinstance(doc.data, list) else f"a single {type(doc.data).__name__} value"
         raise InputError([doc.problem((), f"the top level of a sheet must be a mapping, got {kind}",
                                       "start with `id: ...`, `revision: ...` and `features:` lines")])
-    check = _Checker(doc, folder)
+    check = _Checker(doc, folder, allow_placeholders)
     data = doc.data
     check.unknown_keys(data, TOP_LEVEL, ())
     vehicle_id = check.slug(data, "id", required=True)
@@ -480,11 +530,11 @@ def from_document(doc: yamldoc.Document, folder: Path) -> Sheet:
         geometry=check.geometry(data.get("geometry")),
         line_of={**lines, **{k: doc.where((k,), key=True)[0] for k in ("id", "revision", "parent") if k in data}},
     )
+    if "reviewer" in data and not sheet.reviewer.strip() and not is_placeholder(data["reviewer"]):
+        check.error(("reviewer",), "'reviewer' is empty", "write who reviewed this revision, or remove the line")
     check.problems.extend(_combinations(sheet, doc))
-    if check.problems:
-        raise InputError(sorted(check.problems, key=lambda p: (p.line, p.column)))
     sheet.warnings = check.warnings
-    return sheet
+    return sheet, sorted(check.problems, key=lambda p: (p.line, p.column))
 
 
 def load_sheet(path: Path | str, display: str | None = None) -> Sheet:
@@ -539,6 +589,14 @@ def _sibling_revisions(folders, loaded: set[Path]) -> dict[tuple[str, str], None
     return found
 
 
+def _parent_hint(sheet: Sheet, known: list[str]) -> str:
+    """The revisions a missing parent could have meant (a revision is not its own parent)."""
+    if known == [sheet.revision]:
+        return f"no other revision of {sheet.vehicle_id} was found; add the parent's sheet or remove `parent:`"
+    close = close_match(sheet.parent, [r for r in known if r != sheet.revision])
+    return f"known revisions: {', '.join(known)}" + (f"; did you mean '{close}'?" if close else "")
+
+
 def load_fleet(paths) -> Fleet:
     """Load every sheet under ``paths`` and check the fleet as a whole.
 
@@ -549,20 +607,27 @@ def load_fleet(paths) -> Fleet:
     """
     files, problems = sheet_files(paths)
     sheets: list[Sheet] = []
+    checked: list[Sheet] = []  # every sheet that parsed, usable or not, for the fleet checks
     for file in files:
         try:
-            sheets.append(load_sheet(file))
+            sheet, errors = check_document(yamldoc.load(file, str(file)), file.parent)
         except InputError as error:
             problems.extend(error.problems)
+            continue
+        problems.extend(errors)
+        checked.append(sheet)
+        if not errors:
+            sheets.append(sheet)
     seen: dict[tuple[str, str], Sheet | None] = {}
-    for sheet in sheets:
+    checked = [s for s in checked if s.vehicle_id and s.revision]
+    for sheet in checked:
         key = (sheet.vehicle_id, sheet.revision)
         if key in seen:
             problems.append(Problem(sheet.path, sheet.line_of.get("revision", 1), 1, f"{sheet.label} is defined twice",
                                     f"it is also defined in {seen[key].path}; give each revision its own name"))
         else:
             seen[key] = sheet
-    orphans = [s for s in sheets if s.parent and (s.vehicle_id, s.parent) not in seen]
+    orphans = [s for s in checked if s.parent and (s.vehicle_id, s.parent) not in seen]
     if orphans:
         loaded = {p.resolve() for p in files}
         seen.update(_sibling_revisions((Path(s.path).parent for s in orphans), loaded))
@@ -575,8 +640,7 @@ def load_fleet(paths) -> Fleet:
         if key in seen:
             continue
         if key not in hints:
-            known = sorted(revisions.get(sheet.vehicle_id, ()))
-            hints[key] = f"known revisions: {', '.join(known) or 'none'}; {suggest(sheet.parent, known)}"
+            hints[key] = _parent_hint(sheet, sorted(revisions.get(sheet.vehicle_id, ())))
         problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,
                                 f"parent revision '{sheet.parent}' of {sheet.vehicle_id} does not exist", hints[key]))
     return Fleet(sheets, problems)

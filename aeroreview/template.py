@@ -1,8 +1,10 @@
 """Write a new, commented feature sheet for a vehicle revision.
 
-The template is itself a valid sheet: required features carry example values for the
-chosen class, each marked ``REPLACE``; every optional feature is present as a comment
-with its unit, typical range and how to measure it, so the reviewer uncomments and fills.
+Required features carry example values for the chosen class written as placeholders
+(``<e.g. 4.8 m>``): `aeroreview check` refuses the sheet until each one is replaced, so an
+unfilled template never passes the gate. Every optional feature is present as a comment
+with its unit, typical range, how to measure it and its sign convention, so the reviewer
+uncomments and fills.
 """
 
 from __future__ import annotations
@@ -12,7 +14,7 @@ from pathlib import Path
 
 from aeroreview import catalogue
 from aeroreview.problems import UsageError
-from aeroreview.sheet import SLUG
+from aeroreview.sheet import SLUG, is_placeholder
 
 # Example dimensions per class (length m, width m, height m, curb mass kg): round numbers
 # typical of current production bodies, common practice; only placeholders to replace.
@@ -31,13 +33,15 @@ CLASS_EXAMPLES = {
 
 def _examples(vehicle_class: str) -> dict[str, object]:
     length, width, height, mass = CLASS_EXAMPLES[vehicle_class]
-    return {"vehicle.class": vehicle_class, "dimensions.length": f"{length} m", "dimensions.width": f"{width} m",
-            "dimensions.height": f"{height} m", "mass.curb": f"{mass} kg", "powertrain.kind": "electric"}
+    return {"dimensions.length": f"<e.g. {length} m>", "dimensions.width": f"<e.g. {width} m>",
+            "dimensions.height": f"<e.g. {height} m>", "mass.curb": f"<e.g. {mass} kg>",
+            "powertrain.kind": "<one of electric, combustion, hybrid>", "vehicle.class": vehicle_class}
 
 
 def _comment(item: catalogue.Feature) -> str:
     typical = f"; typical {item.typical_text()}" if item.typical else ""
-    return f"{item.unit_label()}{typical}. {item.how_to_measure}"
+    sign = f" Sign: {item.sign}." if item.sign else ""
+    return f"{item.unit_label()}{typical}. {item.how_to_measure}{sign}"
 
 
 def render(vehicle_id: str, vehicle_class: str, revision: str = "r1", today: _dt.date | None = None) -> str:
@@ -48,24 +52,28 @@ def render(vehicle_id: str, vehicle_class: str, revision: str = "r1", today: _dt
         f"# aeroreview feature sheet for {vehicle_id}, revision {revision}.",
         "# Values: a number in the unit shown, a string with a unit (\"27 deg\", \"180 mm\"),",
         "# or {value: ..., source: ..., note: ...} to record where a number came from.",
-        "# Lines marked REPLACE hold example values: put in your vehicle's own.",
+        "# Values in angle brackets (<e.g. 4.8 m>) are placeholders: `aeroreview check` refuses",
+        "# the sheet until each one holds your vehicle's own value.",
+        "# Conventions: x from the nose rearward, z up from the ground, y lateral; side-view angles",
+        "# from the horizontal; lift positive upward (downforce is negative lift).",
         "# Uncomment and fill the optional features you know; `aeroreview check` this file.",
         f"id: {vehicle_id}",
         f"revision: {revision}",
-        f"name: {vehicle_id}  # REPLACE with the display name",
+        "name: <display name>",
         f"reviewed: {today.isoformat()}",
-        "reviewer: ''",
+        "reviewer: <your name>",
         "features:",
     ]
     for zone, items in catalogue.by_zone().items():
         lines.append(f"  # -- {catalogue.ZONES[zone]} " + "-" * max(4, 60 - len(catalogue.ZONES[zone])))
         for item in items:
             if item.required:
-                lines.append(f"  {item.key}: {examples[item.key]}  # REPLACE example. {_comment(item)}")
+                lines.append(f"  {item.key}: {examples[item.key]}  # {_comment(item)}")
             else:
                 lines.append(f"  # {item.key}:   # {_comment(item)}")
     lines += [
-        "results: []  # CFD, tunnel or road results: kind, label, speed, cd, cl_front, cl_rear, yaw_sweep",
+        "results: []  # CFD, tunnel or road results: kind, label, speed, cd, cl_front, cl_rear (lift positive "
+        "upward), yaw_sweep (yaw positive either side; one side is mirrored)",
         "waivers: []  # accepted findings: rule, reason, by, expires",
         "notes: ''",
         "attachments: []  # images: file (relative to this sheet), zone, caption",
@@ -73,8 +81,14 @@ def render(vehicle_id: str, vehicle_class: str, revision: str = "r1", today: _dt
     return "\n".join(lines) + "\n"
 
 
-def write(path: Path, vehicle_id: str, vehicle_class: str, revision: str = "r1") -> None:
-    """Write a new sheet to ``path``; never overwrite an existing file."""
+def placeholder_count(text: str) -> int:
+    """How many values of a sheet's text are still placeholders (comment lines left out)."""
+    values = (line.split("#", 1)[0].partition(":")[2] for line in text.splitlines())
+    return sum(is_placeholder(value) for value in values)
+
+
+def write(path: Path, vehicle_id: str, vehicle_class: str, revision: str = "r1") -> int:
+    """Write a new sheet to ``path`` (never over an existing file); the number of placeholders in it."""
     if not SLUG.match(vehicle_id):
         raise UsageError(f"'{vehicle_id}' is not a safe vehicle id; use lowercase letters, digits and inner hyphens")
     if not SLUG.match(revision):
@@ -90,3 +104,4 @@ def write(path: Path, vehicle_id: str, vehicle_class: str, revision: str = "r1")
         raise UsageError(f"{path} already exists; not overwriting it (choose another --output)") from None
     except OSError as error:
         raise UsageError(f"cannot write {path}: {error.strerror}") from None
+    return placeholder_count(text)

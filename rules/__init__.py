@@ -246,6 +246,9 @@ def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=()
     return register
 
 
+RULES_HINT = "see `aeroreview rules` for the rule ids"  # where a mistyped rule id is looked up
+
+
 def all_rules() -> dict[str, Rule]:
     """Every registered rule, by id, in zone order."""
     return _ordered(len(REGISTRY))

@@ -3,13 +3,14 @@
 from __future__ import annotations
 
 import json
+import re
 
 import jsonschema
 import pytest
 import yaml
 
-from aeroreview import catalogue
-from conftest import DEMO_SHEETS, VEHICLES
+from aeroreview import catalogue, template
+from conftest import DEMO_SHEETS, MINIMAL, VEHICLES
 
 
 def _as_json(value):
@@ -81,25 +82,60 @@ def test_demo_fleet_shape():
     assert any(result.get("yaw_sweep") for sheet in sheets for result in sheet.get("results", []))
 
 
-def test_template_is_a_valid_sheet_and_is_never_overwritten(cli, tmp_path):
+def fill_placeholders(text: str) -> str:
+    """What a reviewer does to a fresh template: put a real value where each placeholder is."""
+    text = text.replace("<display name>", "Demo Car").replace("<your name>", "A. Reviewer")
+    text = text.replace("<one of electric, combustion, hybrid>", "electric")
+    return re.sub(r"<e\.g\. ([^<>]+)>", r"\1", text)
+
+
+def test_template_placeholders_are_refused_until_filled_and_never_overwritten(cli, tmp_path):
+    """An unfilled template must not pass the gate: each placeholder is a located input error (exit 2)."""
     target = tmp_path / "x.yaml"
-    assert cli("new", "demo-car", "--class", "sedan", "-o", target).code == 0
+    made = cli("new", "demo-car", "--class", "sedan", "-o", target)
+    assert made.code == 0 and "7 placeholders" in made.out and "refuses" in made.out
     text = target.read_text(encoding="utf-8")
-    assert "REPLACE" in text
     for item in catalogue.FEATURES:
         assert item.key in text, item.key
-    assert cli("check", target).code == 0
+    assert "vehicle.class: sedan  #" in text and "vehicle.class: <" not in text  # --class chose it
+    for fail_on in ("failure", "never"):
+        run = cli("check", target, "--fail-on", fail_on)
+        assert run.code == 2, run.err
+        left = [line for line in run.err.splitlines() if "template placeholder" in line]
+        lines = [i for i, line in enumerate(text.splitlines(), 1) if re.search(r": <[^>]*>", line)]
+        assert [int(line.split(":")[1]) for line in left] == lines and len(lines) == 7
+    filled = tmp_path / "filled.yaml"
+    filled.write_text(fill_placeholders(text), encoding="utf-8")
+    assert cli("check", filled).code == 0
     again = cli("new", "demo-car", "--class", "sedan", "-o", target)
     assert again.code == 2 and "already exists" in again.err
     assert target.read_text(encoding="utf-8") == text
 
 
+def test_empty_reviewer_is_refused(cli, write_sheet):
+    path = write_sheet(MINIMAL.replace("features:", "reviewer: ''\nfeatures:"))
+    run = cli("check", path)
+    assert run.code == 2 and f"{path}:3:" in run.err and "'reviewer' is empty" in run.err
+
+
 @pytest.mark.parametrize("vehicle_class", catalogue.VEHICLE_CLASSES)
-def test_template_for_every_class_checks_clean(cli, tmp_path, vehicle_class):
+def test_template_for_every_class_checks_clean_once_filled(cli, tmp_path, vehicle_class):
     target = tmp_path / f"{vehicle_class}.yaml"
     assert cli("new", "car", "--class", vehicle_class, "--revision", "r3", "-o", target).code == 0
+    target.write_text(fill_placeholders(target.read_text(encoding="utf-8")), encoding="utf-8")
     run = cli("check", target)
     assert run.code == 0 and "warning" not in run.err, run.err
+
+
+def test_template_states_every_sign_convention(tmp_path):
+    """Every quantity that can be negative says which way is positive, in the template beside it."""
+    text = template.render("car", "sedan")
+    signed = [f for f in catalogue.FEATURES if f.kind == "quantity" and f.bounds[0] < 0]
+    assert signed
+    for item in signed:
+        line = next(line for line in text.splitlines() if f" {item.key}:" in line)
+        assert item.sign and f"Sign: {item.sign}" in line, item.key
+    assert "positive nose-down" in next(line for line in text.splitlines() if "underbody.pitch" in line)
 
 
 def test_new_refuses_an_unsafe_id(cli, tmp_path):

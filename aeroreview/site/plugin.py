@@ -28,7 +28,7 @@ from mkdocs.plugins import BasePlugin
 from mkdocs.structure.files import File
 
 from aeroreview.problems import InputError
-from aeroreview.review import review_sheet, waiver_problems
+from aeroreview.review import review_sheet
 from aeroreview.settings import load_settings
 from aeroreview.sheet import load_fleet
 from aeroreview.site.figures import FigureCache
@@ -72,7 +72,7 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         try:
             self.settings = load_settings(config.config_file_path)
             fleet = load_fleet([self.settings.sheets_path])
-            problems = fleet.problems + waiver_problems(fleet)
+            problems = fleet.problems
             if problems:
                 raise InputError(problems)
         except InputError as error:
