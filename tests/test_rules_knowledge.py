@@ -143,9 +143,12 @@ def test_class_cd_ranges_with_crossover():
 # -- yaw checks --------------------------------------------------------------------------------
 
 def test_yaw_drag_rise_and_wind_average():
-    """tessel r2: Cd 0.232 -> 0.264 (mean of +-10 deg) = +13.8 %: advisory above 10 %; the J1252 average at
+    """tessel r2: Cd 0.232 -> 0.264 (mean of +-10 deg) = +13.8 %: pass below 15 %; the J1252 average at
     100 km/h is 0.242 / 0.232 = 1.045 (pass, limit 1.06)."""
-    assert status("stability.yaw-drag-rise", CLEAN) == "advisory"
+    assert status("stability.yaw-drag-rise", CLEAN) == "pass"
+    rising = [dataclasses.replace(p, cd=0.232 * (1 + 0.018 * abs(p.yaw) * 57.2958)) for p in CLEAN.results[0].yaw_sweep]
+    assert status("stability.yaw-drag-rise", with_features(results=[dataclasses.replace(
+        CLEAN.results[0], yaw_sweep=tuple(rising))])) == "advisory"  # +18 % at 10 deg
     assert status("stability.wind-averaged-drag", CLEAN) == "pass"
     steep = [dataclasses.replace(p, cd=0.232 * (1 + 0.03 * abs(p.yaw) * 57.2958)) for p in CLEAN.results[0].yaw_sweep]
     steep_sheet = with_features(results=[dataclasses.replace(CLEAN.results[0], yaw_sweep=tuple(steep))])
