@@ -99,12 +99,23 @@ def cmd_drag(args) -> int:
              f"drag             {drag:9.1f} N", f"drag power       {drag * args.speed / 1000:9.2f} kW"]
     if (args.cl_front is None) != (args.cl_rear is None):
         raise UsageError("give both --cl-front and --cl-rear, or neither")
+    if (args.mass is None) != (args.front_share is None):
+        raise UsageError("give both --mass and --front-share (lift as a share of each axle's load), or neither")
     if args.cl_front is not None:
         front, rear = (float(x) for x in forces.axle_lift(args.cl_front, args.cl_rear, args.area, args.speed, state.density))
         values.update(lift_front_N=front, lift_rear_N=rear, lift_front_kg=float(forces.kilograms_force(front)),
                       lift_rear_kg=float(forces.kilograms_force(rear)))
-        lines += [f"lift front       {front:9.1f} N  ({values['lift_front_kg']:.1f} kg)",
-                  f"lift rear        {rear:9.1f} N  ({values['lift_rear_kg']:.1f} kg)"]
+        shares = ("", "")
+        if args.mass is not None:
+            share_front, share_rear = (float(x) for x in forces.axle_load_share(front, rear, args.mass, args.front_share))
+            values.update(lift_front_share_of_axle_load=share_front, lift_rear_share_of_axle_load=share_rear)
+            shares = tuple(f", {x * 100:+.2f} % of the static axle load" for x in (share_front, share_rear))
+        lines += [f"lift front       {front:9.1f} N  ({values['lift_front_kg']:.1f} kg{shares[0]})",
+                  f"lift rear        {rear:9.1f} N  ({values['lift_rear_kg']:.1f} kg{shares[1]})"]
+        if args.mass is not None:
+            lines.append("lift positive upward unloads the axle; confirm high-speed stability by test")
+    elif args.mass is not None:
+        raise UsageError("--mass gives lift as a share of axle load: give --cl-front and --cl-rear too")
     return _emit(args, values, lines)
 
 
@@ -216,6 +227,10 @@ def add_parser(sub) -> None:
     p.add_argument("--speed", type=quantity("km/h", positive=True), required=True, help="speed [km/h]")
     p.add_argument("--cl-front", type=quantity("", -3, 3), help="front axle lift coefficient")
     p.add_argument("--cl-rear", type=quantity("", -3, 3), help="rear axle lift coefficient")
+    p.add_argument("--mass", type=quantity("kg", positive=True),
+                   help="vehicle mass [kg]: lift is then also shown as a share of each static axle load")
+    p.add_argument("--front-share", type=quantity("", 0.05, 0.95),
+                   help="share of the mass on the front axle, 0.55 or '55 %%' (with --mass)")
     _air_options(p)
     p.set_defaults(run=cmd_drag)
 

@@ -14,7 +14,7 @@ import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, calc_cli, report, review, schema, template
+from aeroreview import __version__, baseline, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.problems import InputError, UsageError, clean
 from aeroreview.rules import REGIONS, RULES_HINT, ZONES, all_rules
@@ -64,13 +64,19 @@ def _cmd_check(args) -> int:
     problems = fleet.problems
     bad_files = {p.file for p in problems}
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
-    counted = report.new_or_worse(reviews, report.load_baseline(args.baseline)) if args.baseline else None
+    before = baseline.load(args.baseline) if args.baseline else None
     notices = fleet.warnings + [n for r in reviews for n in r.notices]
-    data = report.as_json(reviews, problems + notices, fail_on, counted)
+    data = report.as_json(reviews, problems + notices, fail_on)
+    if before is not None:
+        baseline.apply(data, before)
     if args.format == "json":
         text = json.dumps(data, indent=2, default=str) + "\n"
     elif args.format == "junit":
         text = report.as_junit(data, fail_on)
+    elif args.format == "sarif":
+        from aeroreview.sarif import as_sarif
+
+        text = as_sarif(data)
     else:
         for warning in notices:
             print(warning, file=sys.stderr)
@@ -180,6 +186,17 @@ def _cmd_new(args) -> int:
     return EXIT_CLEAN
 
 
+def _cmd_init(args) -> int:
+    from aeroreview import starter
+
+    folder = Path(args.folder)
+    starter.create(folder)
+    print(f"wrote a knowledge base in {folder}: mkdocs.yml (settings), site_src/ (pages), vehicles/ (empty), "
+          f"ci/gate.sh (the CI gate)\nnext: cd {folder} && aeroreview new VEHICLE_ID --class CLASS, "
+          "fill the sheet, then aeroreview check")
+    return EXIT_CLEAN
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = _Parser(prog="aeroreview", description="Review road-vehicle aerodynamics from feature sheets.")
     parser.add_argument("--version", action="version", version=f"aeroreview {__version__}")
@@ -188,10 +205,12 @@ def build_parser() -> argparse.ArgumentParser:
 
     check = sub.add_parser("check", help="validate and review sheets (files or folders, searched recursively)")
     check.add_argument("paths", nargs="*", metavar="PATH", help="sheets or folders (default: the configured sheets)")
-    check.add_argument("--format", choices=("text", "json", "junit"), default="text")
+    check.add_argument("--format", choices=("text", "json", "junit", "sarif"), default="text",
+                       help="report format: text, json, junit (XML) or sarif (SARIF 2.1.0, for code review)")
     check.add_argument("-o", "--output", help="write the report to this file instead of stdout")
     check.add_argument("--fail-on", choices=FAIL_LEVELS, help="lowest status that fails (default from the settings)")
-    check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this report")
+    check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this JSON report "
+                       "(worse: a higher status, or a grown estimate or excess beyond the limit)")
     check.add_argument("--config", help="settings file (default ./mkdocs.yml)")
     check.set_defaults(run=_cmd_check)
 
@@ -212,6 +231,10 @@ def build_parser() -> argparse.ArgumentParser:
     new.add_argument("--revision", default="r1")
     new.add_argument("-o", "--output", help="file to write (default vehicles/VEHICLE_ID/REVISION.yaml)")
     new.set_defaults(run=_cmd_new)
+
+    init = sub.add_parser("init", help="start a knowledge base of your own in a new or empty folder")
+    init.add_argument("folder", metavar="DIR")
+    init.set_defaults(run=_cmd_init)
 
     measure_cmd = sub.add_parser("measure", help="measure sheet features from a surface (STL, OBJ, PLY) or a CSV profile")
     measure_cmd.add_argument("surface", metavar="SURFACE")

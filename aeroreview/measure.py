@@ -31,6 +31,8 @@ from aeroreview.units import from_si
 MESH_SUFFIXES = (".stl", ".obj", ".ply")
 SIZE_LIMITS = (0.2, 30.0)  # m: from a 1:5 model to a coach; anything else is not a road vehicle (common practice)
 SECTION_STEP = 0.2  # m between horizontal sections (the issue's default)
+MAX_SURFACE_BYTES = 500_000_000  # 10 million binary STL triangles, far above a review surface (common practice)
+MAX_PROFILE_BYTES = 20_000_000  # a CSV profile of a few thousand points is a few hundred kB (common practice)
 PROJECTION_ROWS = 1000  # scan lines: errors far below the 0.5 % required on analytic shapes (tests)
 
 
@@ -85,13 +87,18 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
     name = str(path)
     if not path.is_file():
         raise MeasureError(f"{name}: no such file")
-    if path.stat().st_size == 0:
+    size = path.stat().st_size
+    if size == 0:
         raise MeasureError(f"{name}: the file is empty")
     suffix = path.suffix.lower()
+    limit = MAX_PROFILE_BYTES if suffix == ".csv" else MAX_SURFACE_BYTES
+    if size > limit:
+        raise MeasureError(f"{name}: the file is {size:,} bytes, over the limit of {limit:,}; decimate the surface")
     if suffix == ".csv":
         return _load_profile(path, units, nose, ground)
     if suffix not in MESH_SUFFIXES:
         raise MeasureError(f"{name}: unknown surface format '{suffix}'; give an STL, OBJ or PLY mesh or a CSV profile")
+    _check_declared_size(path, suffix, size)
     import trimesh
 
     try:
@@ -102,6 +109,10 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
         raise MeasureError(f"{name}: not a readable mesh ({type(error).__name__}: {error})") from None
     if not isinstance(mesh, trimesh.Trimesh) or len(mesh.faces) == 0:
         raise MeasureError(f"{name}: the file holds no triangles")
+    faces, count = np.asarray(mesh.faces), len(mesh.vertices)
+    outside = faces[(faces < 0) | (faces >= count)]
+    if outside.size:
+        raise MeasureError(f"{name}: a face refers to vertex {int(outside[0])}, but the file has {count} (0 to {count - 1})")
     notes = []
     vertices = np.asarray(mesh.vertices, dtype=float)
     if not np.isfinite(vertices).all():
@@ -109,7 +120,6 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
     areas = mesh.area_faces
     if (areas <= 1e-18).any():
         notes.append(f"warning: {int((areas <= 1e-18).sum())} degenerate faces (measured anyway)")
-    count = len(mesh.vertices)
     mesh.merge_vertices()
     if len(mesh.vertices) < count and suffix != ".stl":  # STL always repeats vertices; that is its format
         notes.append(f"warning: {count - len(mesh.vertices)} duplicated vertices (merged, measured anyway)")
@@ -127,13 +137,52 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
                    source=path.name, closed=bool(mesh.is_watertight and mesh.is_winding_consistent))
 
 
+_PLY_SIZES = {"char": 1, "uchar": 1, "int8": 1, "uint8": 1, "short": 2, "ushort": 2, "int16": 2, "uint16": 2,
+              "int": 4, "uint": 4, "int32": 4, "uint32": 4, "float": 4, "float32": 4, "double": 8, "float64": 8}
+
+
+def _check_declared_size(path: Path, suffix: str, size: int) -> None:
+    """Refuse a mesh whose header declares more data than the file holds, before reading it:
+    a sparse file claiming 1e8 triangles would otherwise be allocated in full."""
+    with path.open("rb") as stream:
+        head = stream.read(65536)
+    needed = 0
+    if suffix == ".stl" and len(head) >= 84 and not head.lstrip().startswith(b"solid"):
+        needed = 84 + 50 * int.from_bytes(head[80:84], "little")  # binary STL: header, count, 50 bytes a triangle
+    elif suffix == ".ply" and head.startswith(b"ply") and b"end_header" in head:
+        needed = _ply_minimum(head[: head.index(b"end_header")].decode("ascii", "replace").splitlines())
+    if needed > size:
+        raise MeasureError(f"{path}: the header declares at least {needed:,} bytes of data but the file has {size:,}; "
+                           "the file is truncated or not what it claims")
+
+
+def _ply_minimum(header: list[str]) -> int:
+    """The fewest bytes the elements a PLY header declares can take (a face has 3 indices or more;
+    in ASCII every value takes a digit and a separator)."""
+    binary = any(line.startswith("format binary") for line in header)
+    elements: list[list[int]] = []  # [count, bytes a row]
+    for words in (line.split() for line in header):
+        if words[:1] == ["element"] and len(words) == 3 and words[2].isdigit():
+            elements.append([int(words[2]), 0])
+        elif words[:1] == ["property"] and elements and len(words) == 5 and words[1] == "list":
+            count, index = (_PLY_SIZES.get(w, 1) if binary else 2 for w in words[2:4])
+            elements[-1][1] += count + 3 * index
+        elif words[:1] == ["property"] and elements and len(words) == 3:
+            elements[-1][1] += _PLY_SIZES.get(words[1], 1) if binary else 2
+    return sum(count * row for count, row in elements)
+
+
 def _load_profile(path: Path, units: str | None, nose: str, ground: float | None) -> Surface:
     name = str(path)
     try:
         text = path.read_text(encoding="utf-8-sig")
     except UnicodeDecodeError:
         raise MeasureError(f"{name}: not a UTF-8 text CSV file") from None
-    rows = [r for r in csv.reader(io.StringIO(text)) if r and not r[0].lstrip().startswith("#")]
+    reader = csv.reader(io.StringIO(text))
+    try:
+        rows = [r for r in reader if r and not r[0].lstrip().startswith("#")]
+    except csv.Error as error:
+        raise MeasureError(f"{name}:{reader.line_num}: not a readable CSV row ({error})") from None
     if not rows:
         raise MeasureError(f"{name}: the CSV file has no rows")
     header = [h.strip().lower() for h in rows[0]]
@@ -149,6 +198,10 @@ def _load_profile(path: Path, units: str | None, nose: str, ground: float | None
     points = np.array(values)
     if len(points) < 4:
         raise MeasureError(f"{name}: a profile needs at least 4 points, got {len(points)}")
+    if not np.isfinite(points).all():
+        raise MeasureError(f"{name}: the profile has values that are not finite numbers")
+    if np.ptp(points[:, 0]) == 0:
+        raise MeasureError(f"{name}: every point has the same x; a profile runs from the nose to the tail along x")
     extent = float(np.ptp(points, axis=0).max())
     scale, unit, note = _scale_for(extent, units)
     _check_size(extent * scale, name)

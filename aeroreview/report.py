@@ -6,17 +6,14 @@ All three are built from the same :func:`as_json` data, so they never disagree.
 from __future__ import annotations
 
 import io
-import json
 import xml.etree.ElementTree as ET
-from pathlib import Path
 
 from rich.console import Console
 from rich.markup import escape
 
-from aeroreview.problems import InputError, Problem
+from aeroreview.problems import Problem
 from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES
-from aeroreview.settings import status_rank
 from aeroreview.track_record import pairs, summary
 
 STYLE = {"pass": "green", "advisory": "cyan", "warning": "yellow", "failure": "bold red", NOT_ASSESSED: "dim"}
@@ -38,11 +35,17 @@ def finding_json(finding: Finding) -> dict:
     }
 
 
-def review_json(review: Review, fail_on: str, counted: set | None = None) -> dict:
+def finding_line(sheet, finding: Finding) -> int:
+    """The sheet line a finding points at: its first needed feature the sheet gives, else the results."""
+    for key in finding.rule.needs:
+        if key in sheet.line_of:
+            return sheet.line_of[key]
+    return sheet.line_of.get("results", sheet.line_of.get("features", 1))
+
+
+def review_json(review: Review, fail_on: str) -> dict:
     sheet = review.sheet
     gate = failing(review, fail_on)
-    if counted is not None:
-        gate = [f for f in gate if (sheet.vehicle_id, sheet.revision, f.rule.id) in counted]
     return {
         "file": sheet.path, "vehicle": sheet.vehicle_id, "revision": sheet.revision, "name": sheet.name,
         "parent": sheet.parent, "class": sheet.get("vehicle.class"),
@@ -55,7 +58,7 @@ def review_json(review: Review, fail_on: str, counted: set | None = None) -> dic
         "ranked_fixes": [f.rule.id for f in review.ranked_fixes],
         "key_numbers": review.key_numbers, "assumptions": review.assumptions,
         "failing": [f.rule.id for f in gate],
-        "findings": [finding_json(f) for f in review.findings],
+        "findings": [{**finding_json(f), "line": finding_line(sheet, f)} for f in review.findings],
         "notices": [n.as_dict() for n in review.notices],
     }
 
@@ -82,8 +85,8 @@ def pairs_json(reviews: list[Review]) -> dict:
                              for key, value in summary(found).items()}}
 
 
-def as_json(reviews: list[Review], problems: list[Problem], fail_on: str, counted: set | None = None) -> dict:
-    return {"sheets": [review_json(r, fail_on, counted) for r in reviews], **pairs_json(reviews),
+def as_json(reviews: list[Review], problems: list[Problem], fail_on: str) -> dict:
+    return {"sheets": [review_json(r, fail_on) for r in reviews], **pairs_json(reviews),
             "errors": [p.as_dict() for p in problems if p.level == "error"],
             "warnings": [p.as_dict() for p in problems if p.level != "error"]}
 
@@ -126,6 +129,12 @@ def as_text(data: dict, color: bool) -> str:
                 console.print(f"    [dim]not assessed: {', '.join(unassessed)}[/]")
         for notice in sheet["notices"]:
             console.print(f"  [yellow]notice[/] {escape(notice['message'])}; {escape(notice['hint'])}")
+        base = sheet.get("baseline", {"worse": [], "suppressed": []})
+        for item in base["worse"]:
+            console.print(f"  [bold]worse than the baseline:[/] {item['rule']}: {item['why']}")
+        if base["suppressed"]:
+            console.print("  [dim]not counted, no worse than the baseline: "
+                          + ", ".join(f"{s['rule']} ({s['status']})" for s in base["suppressed"]) + "[/]")
         if sheet["failing"]:
             console.print(f"  [bold red]fails the gate:[/] {', '.join(sheet['failing'])}")
         console.print()
@@ -184,35 +193,3 @@ def as_junit(data: dict, fail_on: str) -> str:
             ET.SubElement(case, "error", message=str(Problem(**problem)))
     ET.indent(suites)
     return ET.tostring(suites, encoding="unicode", xml_declaration=True) + "\n"
-
-
-def load_baseline(path: str) -> dict[tuple, int]:
-    """Statuses of a previous JSON report, by (vehicle, revision, rule) and by (vehicle, rule)."""
-    try:
-        data = json.loads(Path(path).read_text(encoding="utf-8"))
-        ranks: dict[tuple, int] = {}
-        for sheet in data["sheets"]:
-            for finding in sheet["findings"]:
-                rank = status_rank(finding["status"])
-                ranks[(sheet["vehicle"], sheet["revision"], finding["rule"])] = rank
-                key = (sheet["vehicle"], finding["rule"])
-                ranks[key] = max(rank, ranks.get(key, -1))
-        return ranks
-    except OSError as error:
-        raise InputError([Problem(path, 1, 1, f"cannot read the baseline: {error.strerror}", "check the path")]) from None
-    except (ValueError, KeyError, TypeError) as error:
-        raise InputError([Problem(path, 1, 1, f"not an aeroreview JSON report ({type(error).__name__}: {error})",
-                                  "make it with `aeroreview check --format json --output FILE`")]) from None
-
-
-def new_or_worse(reviews: list[Review], baseline: dict[tuple, int]) -> set:
-    """(vehicle, revision, rule) of findings worse than the baseline (new revisions compare by vehicle)."""
-    out = set()
-    for review in reviews:
-        sheet = review.sheet
-        for finding in review.findings:
-            before = baseline.get((sheet.vehicle_id, sheet.revision, finding.rule.id),
-                                  baseline.get((sheet.vehicle_id, finding.rule.id), -1))
-            if status_rank(finding.status) > before:
-                out.add((sheet.vehicle_id, sheet.revision, finding.rule.id))
-    return out

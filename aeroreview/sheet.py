@@ -528,7 +528,7 @@ def check_document(doc: yamldoc.Document, folder: Path, allow_placeholders: bool
         features=features, results=check.results(data.get("results")), waivers=check.waivers(data.get("waivers")),
         notes=check.text(data, "notes"), attachments=check.attachments(data.get("attachments")),
         geometry=check.geometry(data.get("geometry")),
-        line_of={**lines, **{k: doc.where((k,), key=True)[0] for k in ("id", "revision", "parent") if k in data}},
+        line_of={**lines, **{k: doc.where((k,), key=True)[0] for k in ("id", "revision", "parent", "features", "results") if k in data}},
     )
     if "reviewer" in data and not sheet.reviewer.strip() and not is_placeholder(data["reviewer"]):
         check.error(("reviewer",), "'reviewer' is empty", "write who reviewed this revision, or remove the line")
@@ -567,7 +567,10 @@ def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
             files.append(path)
         else:
             problems.append(Problem(str(given), 1, 1, "no such file or folder", "check the path"))
-    return files, problems
+    unique = {}  # a sheet named twice (a folder and a file in it) is read once
+    for file in files:
+        unique.setdefault(file.resolve(), file)
+    return list(unique.values()), problems
 
 
 def _sibling_revisions(folders, loaded: set[Path]) -> dict[tuple[str, str], None]:

@@ -92,3 +92,26 @@ def test_every_yaml_error_is_one_located_line(cli, write_sheet):
         run = cli("check", path)
         assert run.code == 2 and "internal error" not in run.err and "Traceback" not in run.err, text
         assert all(line.startswith(f"{path}:") for line in run.err.splitlines() if line), (text, run.err)
+
+
+def test_one_bad_sheet_does_not_hide_the_others(tmp_path):
+    """`check vehicles/ bad.yaml`: every other sheet's review, and the bad file's located errors."""
+    import json
+    import shutil
+
+    from conftest import VEHICLES, run_cli
+
+    fleet = shutil.copytree(VEHICLES, tmp_path / "vehicles")
+    bad, unreadable = tmp_path / "bad.yaml", tmp_path / "unreadable.yaml"
+    bad.write_text(MINIMAL.replace("4.8 m", '"1 m**9**9**9"') + "  mass.front_axle_share: " + "9" * 400 + "\n")
+    unreadable.write_text(MINIMAL.replace("id: test-car", "id: test-car\nname: !!timestamp nope"))
+    run = run_cli("check", fleet, bad, unreadable, fleet / "tessel/r1.yaml")  # the same sheet twice is read once
+    assert run.code == 2
+    for label in ("tessel@r1", "tessel@r2", "quillon@r1", "quillon@r2", "dravik@r1", "dravik@r2"):
+        assert label in run.out, label
+    assert located(run, bad, "dimensions.length") == (5, 22)
+    assert located(run, bad, "too large") == (10, 26)
+    assert located(run, unreadable, "as a YAML timestamp") == (2, 7)
+    assert "defined twice" not in run.err
+    data = json.loads(run_cli("check", fleet, bad, "--format", "json").out)
+    assert len(data["sheets"]) == 6 and {e["file"] for e in data["errors"]} == {str(bad)}

@@ -10,15 +10,14 @@ review settings (:mod:`aeroreview.settings`), read from the same section of mkdo
 - ``on_page_markdown``: put the fleet table into the home page.
 - ``on_serve``: watch the sheets, so ``mkdocs serve`` rebuilds when a sheet changes.
 - ``on_post_build`` / ``on_build_error``: swap the finished site into place, or drop the
-  half-built one, so a failed build leaves the previous site untouched.
+  half-built one, so a failed build leaves the previous site untouched
+  (:mod:`aeroreview.site.output` refuses unsafe output folders and does the swap).
 """
 
 from __future__ import annotations
 
 import datetime
 import os
-import shutil
-import tempfile
 from pathlib import Path
 
 from mkdocs.config import base
@@ -32,6 +31,7 @@ from aeroreview.review import review_sheet
 from aeroreview.settings import load_settings
 from aeroreview.sheet import load_fleet
 from aeroreview.site.figures import FigureCache
+from aeroreview.site.output import Output, OutputProblem, check_output, mark
 from aeroreview.site.pages import generate
 
 FLEET_MARKER = "<!-- aeroreview:fleet-table -->"
@@ -61,7 +61,7 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         self.command: str | None = None  # "build", "serve" or "gh-deploy", from on_startup
         self.site = None
         self.final_dir: str | None = None  # where the site goes once the build succeeded
-        self.temp_dir: str | None = None
+        self.output: Output | None = None
         self.settings = None
         self.cache: FigureCache | None = None
 
@@ -71,6 +71,7 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
     def on_config(self, config):
         try:
             self.settings = load_settings(config.config_file_path)
+            target = self._checked_output(config)
             fleet = load_fleet([self.settings.sheets_path])
             problems = fleet.problems
             if problems:
@@ -83,11 +84,20 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         self.cache = cache
         os.environ.setdefault("SOURCE_DATE_EPOCH", str(fleet_epoch(reviews)))  # mkdocs reads it for sitemap dates
         if self.command == "build":
-            self.final_dir = config.site_dir
-            parent = Path(config.site_dir).resolve().parent
-            parent.mkdir(parents=True, exist_ok=True)
-            self.temp_dir = config.site_dir = tempfile.mkdtemp(prefix=".aeroreview-build-", dir=parent)
+            self.final_dir, self.output = config.site_dir, Output(target)
+            config.site_dir = str(self.output.begin())
         return config
+
+    def _checked_output(self, config) -> Path | None:
+        """The real output folder, refused before any work when a build would replace what it must not;
+        None for ``serve``, which builds into its own temporary folder."""
+        if self.command not in ("build", "gh-deploy"):  # both replace site_dir
+            return None
+        try:
+            return check_output(Path(config.site_dir), self.settings.sheets_path, Path(config.docs_dir),
+                                Path(config.config_file_path).parent)
+        except OutputProblem as problem:
+            raise PluginError(str(problem)) from None
 
     def on_files(self, files, *, config):
         for path, content in sorted(self.site.files.items()):
@@ -106,21 +116,16 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         return server
 
     def on_post_build(self, *, config):
-        if self.final_dir:
-            swap_into_place(Path(self.temp_dir), Path(self.final_dir))
-            config.site_dir, self.final_dir = self.final_dir, None
+        if self.output:
+            self.output.finish()
+            config.site_dir, self.final_dir, self.output = self.final_dir, None, None
+        elif self.command == "gh-deploy":  # built in place: mark it, so the next build may replace it
+            mark(Path(config.site_dir))
 
     def on_build_error(self, *, error):
-        if self.final_dir:
-            shutil.rmtree(self.temp_dir, ignore_errors=True)
-            self.final_dir = None
+        self.on_shutdown()
 
-
-def swap_into_place(built: Path, target: Path) -> None:
-    """Replace ``target`` by ``built`` with two renames, so readers never see a half site."""
-    old = target.with_name(f".{target.name}.old")
-    shutil.rmtree(old, ignore_errors=True)
-    if target.exists():
-        target.rename(old)
-    built.rename(target)
-    shutil.rmtree(old, ignore_errors=True)
+    def on_shutdown(self):
+        if self.output:  # the build stopped before the swap: drop the half site, keep the old one
+            self.output.abandon()
+            self.final_dir, self.output = None, None
