@@ -13,19 +13,19 @@ from __future__ import annotations
 import csv
 import io
 import math
-import shutil
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue, yamldoc
+from aeroreview import catalogue
 from aeroreview.calc.geometry.profile import Measurement, measure_centreline, plan_taper
 from aeroreview.calc.geometry.projection import projected_area
-from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_mesh
+from aeroreview.calc.geometry.mesh import edge_check, face_areas, merge_vertices
+from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_levels, slice_mesh
 from aeroreview.problems import InputError, Problem, UsageError
-from aeroreview.sheet import from_document
+from aeroreview.sheetedit import edit_sheet
 from aeroreview.units import from_si
 
 MESH_SUFFIXES = (".stl", ".obj", ".ply")
@@ -104,7 +104,9 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            mesh = trimesh.load(str(path), force="mesh", process=False)
+            mesh = trimesh.load(str(path), process=False)  # a Trimesh, or a Scene when the file holds several
+            if isinstance(mesh, trimesh.Scene):
+                mesh = mesh.to_mesh()  # one mesh; skipped for a single body, whose copy it would be
     except Exception as error:  # noqa: BLE001 - trimesh raises many types on bad files
         raise MeasureError(f"{name}: not a readable mesh ({type(error).__name__}: {error})") from None
     if not isinstance(mesh, trimesh.Trimesh) or len(mesh.faces) == 0:
@@ -117,24 +119,25 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
     vertices = np.asarray(mesh.vertices, dtype=float)
     if not np.isfinite(vertices).all():
         raise MeasureError(f"{name}: the mesh has vertices that are not finite numbers")
-    areas = mesh.area_faces
-    if (areas <= 1e-18).any():
-        notes.append(f"warning: {int((areas <= 1e-18).sum())} degenerate faces (measured anyway)")
-    mesh.merge_vertices()
-    if len(mesh.vertices) < count and suffix != ".stl":  # STL always repeats vertices; that is its format
-        notes.append(f"warning: {count - len(mesh.vertices)} duplicated vertices (merged, measured anyway)")
-    if not mesh.is_watertight:
+    merged, faces = merge_vertices(vertices, faces)
+    degenerate = int((face_areas(merged, faces) <= 1e-18).sum())
+    if degenerate:
+        notes.append(f"warning: {degenerate} degenerate faces (measured anyway)")
+    if len(merged) < count and suffix != ".stl":  # STL always repeats vertices; that is its format
+        notes.append(f"warning: {count - len(merged)} duplicated vertices (merged, measured anyway)")
+    watertight, consistent = edge_check(faces)
+    if not watertight:
         notes.append("warning: the surface is not watertight (measured anyway; sections may show gaps)")
-    extent = float(np.ptp(vertices, axis=0).max())
+    extent = max(float(np.ptp(vertices[:, axis])) for axis in range(3))
     scale, unit, note = _scale_for(extent, units)
     _check_size(extent * scale, name)
-    points = _frame(np.asarray(mesh.vertices) * scale, nose, up)
+    points = _frame(merged * scale, nose, up)
     base = points[:, 2].min() if ground is None else ground * scale
     points[:, 2] -= base
     points[:, 0] -= points[:, 0].min()
     ground_note = "ground plane at the lowest point" if ground is None else f"ground plane at z = {ground:g} {unit}"
-    return Surface(points, np.asarray(mesh.faces), units=unit, units_note=f"{note}; {ground_note}", notes=notes,
-                   source=path.name, closed=bool(mesh.is_watertight and mesh.is_winding_consistent))
+    return Surface(points, faces, units=unit, units_note=f"{note}; {ground_note}", notes=notes,
+                   source=path.name, closed=consistent)
 
 
 _PLY_SIZES = {"char": 1, "uchar": 1, "int8": 1, "uint8": 1, "short": 2, "ushort": 2, "int16": 2, "uint16": 2,
@@ -262,8 +265,8 @@ def measure(surface: Surface, heights: list[float] | None = None) -> Result:
     heights = heights or [h for h in np.arange(SECTION_STEP, 0.95 * top, SECTION_STEP)]  # below the roof skin
     belt = 0.55 * top
     window = min(0.3, 0.1 * length)
-    for h in sorted(set([round(float(h), 4) for h in heights] + [round(belt, 4)])):
-        cut = slice_mesh(v, f, 2, h)
+    levels = sorted(set([round(float(h), 4) for h in heights] + [round(belt, 4)]))
+    for h, cut in zip(levels, slice_levels(v, f, 2, levels)):
         if len(cut) < 10:
             continue
         plan = outline(_polyline_points(cut[:, :, [0, 1]], length), bins=600)
@@ -351,55 +354,35 @@ def as_text(result: Result, source: str) -> str:
 
 # -- merging into a sheet -------------------------------------------------------------
 def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwrite: bool = False) -> dict:
-    """Write the measured features into a sheet, keeping comments and the user's values.
+    """Write the measured features into a sheet, keeping comments and the user's values
+    (through :func:`aeroreview.sheetedit.edit_sheet`, which keeps everything else too).
 
     Returns {"added": [...], "kept": [...], "replaced": [...], "backup": path or None}.
     Nothing is written when the merged sheet would not validate.
     """
-    from ruamel.yaml import YAML
     from ruamel.yaml.comments import CommentedMap
 
-    path = Path(sheet_path)
-    text = yamldoc.read_text(path)
-    yaml = YAML()
-    yaml.preserve_quotes = True
-    try:
-        data = yaml.load(text)
-    except Exception as error:  # noqa: BLE001 - ruamel raises many parser types
-        raise InputError([Problem(str(path), 1, 1, f"cannot read the sheet: {error}", "fix the YAML first")]) from None
-    if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
-        raise InputError([Problem(str(path), 1, 1, "the sheet has no 'features' mapping", "add `features:`")])
-    features = data["features"]
     report = {"added": [], "kept": [], "replaced": [], "backup": None}
-    for key, m in result.measured().items():
-        if key not in catalogue.BY_KEY:
-            continue
-        value, unit = _shown(m)
-        entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
-        entry.fa.set_flow_style()
-        if key in features:
-            if not overwrite:
+
+    def merge(data) -> tuple[dict, bool]:
+        if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
+            raise InputError([Problem(str(sheet_path), 1, 1, "the sheet has no 'features' mapping", "add `features:`")])
+        features = data["features"]
+        for key, m in result.measured().items():
+            if key not in catalogue.BY_KEY:
+                continue
+            value, unit = _shown(m)
+            entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
+            entry.fa.set_flow_style()
+            if key in features and not overwrite:
                 report["kept"].append(key)
                 continue
-            report["replaced"].append(key)
-        else:
-            report["added"].append(key)
-        features[key] = entry
-    buffer = io.StringIO()
-    yaml.dump(data, buffer)
-    new_text = buffer.getvalue()
-    from_document(yamldoc.parse(new_text, str(path)), path.parent, allow_placeholders=True)  # raises InputError: nothing written
-    if report["replaced"]:
-        backup = path.with_name(path.name + ".bak")
-        number = 1
-        while backup.exists():
-            backup = path.with_name(f"{path.name}.bak{number}")
-            number += 1
-        shutil.copy2(path, backup)
-        report["backup"] = str(backup)
-    temporary = path.with_name(f".{path.name}.tmp")
-    temporary.write_text(new_text, encoding="utf-8")
-    temporary.replace(path)
+            report["replaced" if key in features else "added"].append(key)
+            features[key] = entry
+        return report, bool(report["replaced"])
+
+    edit = edit_sheet(sheet_path, merge)
+    report["backup"] = None if edit.backup is None else str(edit.backup)
     return report
 
 

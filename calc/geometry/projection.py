@@ -37,22 +37,30 @@ def projected_area(vertices: np.ndarray, faces: np.ndarray, axis: int = 0, rows:
     Principles and Practice, 2nd ed.; section recalled from memory), applied to the union
     of triangles.
     """
-    keep = [i for i in range(3) if i != axis]
-    full = np.asarray(vertices, dtype=float)[np.asarray(faces)]
-    if one_sided:
-        normal = np.cross(full[:, 1] - full[:, 0], full[:, 2] - full[:, 0])[:, axis]
-        full = full[normal > 0]
-    tri = full[:, :, keep]  # (n, 3, 2): u across, w up
-    if len(tri) == 0:
+    vertices = np.asarray(vertices, dtype=float)
+    faces = np.asarray(faces)
+    across, up = (np.ascontiguousarray(vertices[:, i]) for i in range(3) if i != axis)
+    u = [across[faces[:, corner]] for corner in range(3)]  # one (n,) array per corner: u across, w up
+    w = [up[faces[:, corner]] for corner in range(3)]
+    if one_sided:  # the normal's component along the axis: the cross product's (u, w) determinant
+        normal = (u[1] - u[0]) * (w[2] - w[0]) - (w[1] - w[0]) * (u[2] - u[0])
+        if axis == 1:  # (u, w) = (x, z) is left-handed about +y
+            normal = -normal
+        facing = normal > 0
+        u, w = [c[facing] for c in u], [c[facing] for c in w]
+    if len(u[0]) == 0:
         return 0.0
-    w_min, w_max = tri[:, :, 1].min(), tri[:, :, 1].max()
+    low = np.minimum(np.minimum(w[0], w[1]), w[2])
+    high = np.maximum(np.maximum(w[0], w[1]), w[2])
+    w_min, w_max = low.min(), high.max()
     if w_max <= w_min:
         return 0.0
     dw = (w_max - w_min) / rows
     lines = w_min + (np.arange(rows) + 0.5) * dw
     row_ids, starts, ends = [], [], []
-    for begin in range(0, len(tri), CHUNK):
-        r, s, e = _crossings(tri[begin:begin + CHUNK], w_min, dw, rows)
+    for begin in range(0, len(low), CHUNK):
+        part = slice(begin, begin + CHUNK)
+        r, s, e = _crossings([c[part] for c in u], [c[part] for c in w], low[part], high[part], w_min, dw, rows)
         row_ids.append(r)
         starts.append(s)
         ends.append(e)
@@ -62,29 +70,29 @@ def projected_area(vertices: np.ndarray, faces: np.ndarray, axis: int = 0, rows:
     return float(_union_length(row, start, end, lines, rows) * dw)
 
 
-def _crossings(tri: np.ndarray, w_min: float, dw: float, rows: int):
-    """For each (triangle, scan line) pair: the line index and the interval [start, end] in u."""
-    w = tri[:, :, 1]
-    first = np.ceil((w.min(axis=1) - w_min) / dw - 0.5).astype(np.int64)
-    last = np.floor((w.max(axis=1) - w_min) / dw - 0.5).astype(np.int64)
+def _crossings(u: list, w: list, low, high, w_min: float, dw: float, rows: int):
+    """For each (triangle, scan line) pair: the line index and the interval [start, end] in u.
+
+    ``u`` and ``w`` hold one array per corner; ``low`` and ``high`` each triangle's range in w."""
+    first = np.ceil((low - w_min) / dw - 0.5).astype(np.int64)
+    last = np.floor((high - w_min) / dw - 0.5).astype(np.int64)
     first = np.clip(first, 0, rows - 1)
     last = np.clip(last, -1, rows - 1)
     count = np.maximum(last - first + 1, 0)
-    owner = np.repeat(np.arange(len(tri)), count)
+    owner = np.repeat(np.arange(len(low)), count)
     offset = np.arange(count.sum()) - np.repeat(np.cumsum(count) - count, count)
     row = first[owner] + offset
     level = w_min + (row + 0.5) * dw
-    t = tri[owner]  # (m, 3, 2)
+    u, w = [c[owner] for c in u], [c[owner] for c in w]
     lo = np.full(len(row), np.inf)
     hi = np.full(len(row), -np.inf)
     for a, b in ((0, 1), (1, 2), (2, 0)):
-        wa, wb = t[:, a, 1], t[:, b, 1]
-        ua, ub = t[:, a, 0], t[:, b, 0]
+        wa, wb, ua, ub = w[a], w[b], u[a], u[b]
         crosses = (np.minimum(wa, wb) <= level) & (level <= np.maximum(wa, wb)) & (wa != wb)
         with np.errstate(divide="ignore", invalid="ignore"):
-            u = ua + (level - wa) * (ub - ua) / (wb - wa)
-        lo = np.where(crosses, np.minimum(lo, u), lo)
-        hi = np.where(crosses, np.maximum(hi, u), hi)
+            cut = ua + (level - wa) * (ub - ua) / (wb - wa)
+        lo = np.where(crosses, np.minimum(lo, cut), lo)
+        hi = np.where(crosses, np.maximum(hi, cut), hi)
     valid = hi >= lo
     return row[valid], lo[valid], hi[valid]
 

@@ -27,11 +27,25 @@ def slice_mesh(vertices: np.ndarray, faces: np.ndarray, axis: int, value: float)
     >>> round(float(np.linalg.norm(segments[:, 1] - segments[:, 0], axis=1).sum()), 6)
     4.0
     """
-    tri = np.asarray(vertices, float)[np.asarray(faces)]
+    return slice_levels(vertices, faces, axis, [value])[0]
+
+
+def slice_levels(vertices: np.ndarray, faces: np.ndarray, axis: int, values) -> list[np.ndarray]:
+    """:func:`slice_mesh` at each of ``values``: the faces' range along ``axis`` is found once,
+    and each plane gathers only the faces that straddle it (below or on it, and above)."""
+    vertices = np.asarray(vertices, float)
+    faces = np.asarray(faces)
+    along = np.ascontiguousarray(vertices[:, axis])
+    corners = [along[faces[:, corner]] for corner in range(3)]
+    low = np.minimum(np.minimum(corners[0], corners[1]), corners[2])
+    high = np.maximum(np.maximum(corners[0], corners[1]), corners[2])
+    return [_cut(vertices[faces[(low <= value) & (high > value)]], axis, value) for value in values]
+
+
+def _cut(tri: np.ndarray, axis: int, value: float) -> np.ndarray:
+    """The segment across each triangle (m, 3, 3) that straddles the plane."""
     side = tri[:, :, axis] - value
     above = side > 0
-    straddle = above.any(axis=1) & ~above.all(axis=1)
-    tri, side, above = tri[straddle], side[straddle], above[straddle]
     ends = []
     for a, b in ((0, 1), (1, 2), (2, 0)):
         crosses = above[:, a] != above[:, b]
