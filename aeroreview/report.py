@@ -35,6 +35,17 @@ def finding_json(finding: Finding) -> dict:
     }
 
 
+def rounded(value):
+    """Floats cut to 10 significant digits, so a converted 130 km/h reads 130.0, not 130.00000000000003."""
+    if isinstance(value, float):
+        return float(f"{value:.10g}")
+    if isinstance(value, dict):
+        return {key: rounded(item) for key, item in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [rounded(item) for item in value]
+    return value
+
+
 def finding_line(sheet, finding: Finding) -> int:
     """The sheet line a finding points at: its first needed feature the sheet gives, else the results."""
     for key in finding.rule.needs:

@@ -53,6 +53,6 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
                 diff.write(out, before, review, digest.changes(before, review),
                            track_record.predicted_change(before, review, before.frame),
                            pair_of.get((vehicle_id, before.sheet.revision, review.sheet.revision)))
-    rules.write(out, reviews)
+    rules.write(out, grouped)
     features.write(out)
     return out.site
