@@ -56,9 +56,8 @@ plugins:
       #   rear.backlight-angle: {severity: warning, thresholds: {critical_low: 27 deg}}
 nav:
   - Home: index.md
-  - Fleet:
-      - fleet/index.md
-      - Track record: fleet/track-record.md
+  - Fleet: fleet/index.md
+  - Track record: fleet/track-record.md
   - Rules: rules/index.md
   - Feature reference: features.md
   - Methods:
