@@ -14,7 +14,7 @@ import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, baseline, calc_cli, report, review, schema, template
+from aeroreview import __version__, baseline, calc_cli, report, results_cli, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError, clean
@@ -275,6 +275,7 @@ def build_parser() -> argparse.ArgumentParser:
     site.set_defaults(run=_cmd_site)
 
     calc_cli.add_parser(sub)
+    results_cli.add_parser(sub)
     return parser
 
 
