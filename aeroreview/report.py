@@ -9,14 +9,20 @@ import io
 import xml.etree.ElementTree as ET
 
 from rich.console import Console
-from rich.markup import escape
+from rich.markup import escape as _markup_escape
 
-from aeroreview.problems import Problem
+from aeroreview.problems import Problem, clean
 from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES
 from aeroreview.track_record import pairs, summary
 
 STYLE = {"pass": "green", "advisory": "cyan", "warning": "yellow", "failure": "bold red", NOT_ASSESSED: "dim"}
+
+
+def escape(text) -> str:
+    """Sheet text for the terminal: control characters shown escaped (a waiver reason must not
+    drive the terminal), one line, then Rich markup made literal."""
+    return _markup_escape(clean(text, 2000))
 
 
 def finding_json(finding: Finding) -> dict:
@@ -184,7 +190,7 @@ def as_junit(data: dict, fail_on: str) -> str:
     for sheet in data["sheets"]:
         suite = ET.SubElement(suites, "testsuite", name=f"{sheet['vehicle']}@{sheet['revision']}",
                               tests=str(len(sheet["findings"])), failures=str(len(sheet["failing"])),
-                              skipped=str(sum(f["status"] == NOT_ASSESSED for f in sheet["findings"])), file=sheet["file"])
+                              skipped=str(sum(f["status"] == NOT_ASSESSED for f in sheet["findings"])), file=clean(sheet["file"]))
         for f in sheet["findings"]:
             case = ET.SubElement(suite, "testcase", name=f["rule"], classname=f"{sheet['vehicle']}.{sheet['revision']}.{f['zone']}")
             text = f"{f['status']}: {f['message']}" + (f" (measured {f['measured']}, limit {f['limit']})"

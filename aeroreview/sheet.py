@@ -48,6 +48,7 @@ IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".webp", ".gif")  # raster only: an S
 # SVG or HTML file renamed .png is refused too.
 IMAGE_SIGNATURES = (b"\x89PNG\r\n\x1a\n", b"\xff\xd8\xff", b"GIF87a", b"GIF89a", b"RIFF")
 SURFACE_SUFFIXES = (".stl", ".obj", ".ply", ".csv")
+RESULT_SUFFIXES = (".dat", ".csv", ".txt", ".tsv", ".out", ".vtu", ".vtk", ".ply", ".msh", ".xdmf")  # results files
 ISO_DATE = re.compile(r"^\d{4}-\d{2}-\d{2}$")  # a quoted date, as JSON and editors write it
 # A value still to be filled in: the template writes ``<e.g. 4.8 m>``, so no unfilled
 # template passes for a real sheet. Angle brackets never start a unit or a name.
@@ -319,9 +320,12 @@ class _Checker:
             values = self.fields(sections.RESULT, raw, path)
             sweep = [YawPoint(**point) for point in values["yaw_sweep"]
                      if point["yaw"] is not None and point["cd"] is not None]
+            files = tuple((f["file"], f["sha256"], f["role"]) for j, f in enumerate(values["files"])
+                          if f["file"] and self.safe_file(f["file"], path + ("files", j, "file"), RESULT_SUFFIXES,
+                                                          "result file"))
             if values["cd"] is not None and values["kind"] in RESULT_KINDS:
                 out.append(Result(**{**values, "label": values["label"] or f"{values['kind']} {path[-1] + 1}",
-                                     "scale": values["scale"] or 1.0,
+                                     "scale": values["scale"] or 1.0, "files": files,
                                      "yaw_sweep": tuple(sorted(sweep, key=lambda p: p.yaw))}))
         return out
 
