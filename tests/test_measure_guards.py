@@ -84,7 +84,7 @@ def test_binary_stl_with_a_consistent_count_still_loads(tmp_path):
 
 
 def test_oversize_file_is_refused(tmp_path, monkeypatch):
-    monkeypatch.setattr("aeroreview.measure.MAX_SURFACE_BYTES", 1000)
+    monkeypatch.setattr("aeroreview.surfacefile.MAX_SURFACE_BYTES", 1000)
     path = tmp_path / "big.obj"
     path.write_text("v 0 0 0\n" * 200)
     with pytest.raises(MeasureError, match="over the limit of 1,000"):

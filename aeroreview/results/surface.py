@@ -108,7 +108,7 @@ def _read_mesh(path: Path):
 def load_field(path: str | Path, pressure: str | None = None, shear: str | None = None, units: str | None = None,
                nose: str = "-x", up: str = "+z", ground: float | None = None) -> Field:
     """Read a surface mesh with its pressure (and optional wall-shear) field, in the tool's frame."""
-    from aeroreview.measure import _check_size, _frame, _scale_for
+    from aeroreview.surfacefile import check_size, to_frame, scale_for
 
     path = Path(path)
     name = str(path)
@@ -142,9 +142,9 @@ def load_field(path: str | Path, pressure: str | None = None, shear: str | None 
     if values.ndim != 1:
         raise SurfaceError(f"{name}: field '{found}' has {values.shape[1]} components; a pressure has one")
     extent = float(np.ptp(points, axis=0).max())
-    scale, unit, note = _scale_for(extent, units)
-    _check_size(extent * scale, name)
-    points = _frame(points * scale, nose, up)
+    scale, unit, note = scale_for(extent, units)
+    check_size(extent * scale, name)
+    points = to_frame(points * scale, nose, up)
     points[:, 2] -= points[:, 2].min() if ground is None else ground * scale
     points[:, 0] -= points[:, 0].min()
     stress = None
@@ -152,7 +152,7 @@ def load_field(path: str | Path, pressure: str | None = None, shear: str | None 
         stress = _per_face(fields[shear_found][1], blocks, fields[shear_found][0])
         if stress.ndim != 2 or stress.shape[1] != 3:
             raise SurfaceError(f"{name}: field '{shear_found}' is not a 3-component vector; wall shear is one")
-        stress = _frame(stress, nose, up)
+        stress = to_frame(stress, nose, up)
     stated = {}
     for key, names in STATED.items():
         for stated_name, value in mesh.field_data.items():
