@@ -22,7 +22,7 @@ WORSE_COUNTS = 1.0
 # A margin beyond the limit that grew by more than a tenth of itself is worse: smaller changes
 # are within the scatter of reading a feature off a drawing or a surface (from memory).
 WORSE_SHARE = 0.10
-_MARGIN = re.compile(r"^\s*([+-]?\d+(?:\.\d+)?(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
+_MARGIN = re.compile(r"^\s*(?:[<>]=?\s*)?([+-]?\d+(?:\.\d+)?(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
 
 
 @dataclass(frozen=True)
@@ -34,9 +34,15 @@ class Before:
     counts: float | None  # high end of the drag estimate
 
 
-def _margin(text) -> tuple[float, str] | None:
+def leading_number(text) -> tuple[float, str] | None:
+    """The number a shown value starts with and the text after it: ``"+3.0 deg"`` gives (3.0, "deg")."""
     match = _MARGIN.match(text) if isinstance(text, str) else None
-    return (abs(float(match[1])), match[2]) if match else None
+    return (float(match[1]), match[2]) if match else None
+
+
+def _margin(text) -> tuple[float, str] | None:
+    number = leading_number(text)
+    return (abs(number[0]), number[1]) if number else None
 
 
 def _counts(finding: dict) -> float | None:

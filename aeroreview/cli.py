@@ -66,7 +66,7 @@ def _cmd_check(args) -> int:
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
     before = baseline.load(args.baseline) if args.baseline else None
     notices = fleet.warnings + [n for r in reviews for n in r.notices]
-    data = report.as_json(reviews, problems + notices, fail_on)
+    data = report.rounded(report.as_json(reviews, problems + notices, fail_on))
     if before is not None:
         baseline.apply(data, before)
     if args.format == "json":

@@ -19,6 +19,7 @@ from pathlib import Path
 import numpy as np
 
 from aeroreview import catalogue
+from aeroreview.baseline import leading_number
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.references import AHMED_ATTACHED, AHMED_SEPARATED, AHMED_SOURCE
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
@@ -106,11 +107,30 @@ class FindingChange:
 
 
 @dataclass(frozen=True)
+class WithinStatus:
+    """A finding whose status stayed but whose measured value moved (exposed diffuser parts 4 to 1)."""
+
+    finding: Finding  # the finding in the later revision
+    was_measured: str
+    direction: str  # "better", "worse" or "changed" (when the rule's numbers do not say which)
+
+
+@dataclass(frozen=True)
+class WaiverChange:
+    rule: str
+    change: str  # "added" or "removed"
+    reason: str
+
+
+@dataclass(frozen=True)
 class Changes:
-    """What changed from one revision to the next: features, and findings by kind of change."""
+    """What changed from one revision to the next: features, findings, waivers and the surface file."""
 
     features: list[FeatureChange]
     findings: dict[str, list[FindingChange]]  # appeared, resolved, worse, better (in that order)
+    within_status: list[WithinStatus] = field(default_factory=list)
+    waivers: list[WaiverChange] = field(default_factory=list)
+    geometry: tuple[str, str] | None = None  # surface file before and after ("none" when absent)
 
 
 def critical_region(settings: Settings) -> tuple[float, float]:
@@ -224,4 +244,27 @@ def changes(before: Review, after: Review) -> Changes:
             groups["resolved"].append(FindingChange(f, was))
         elif now_rank > 0 and was_rank > 0 and now_rank != was_rank:
             groups["worse" if now_rank > was_rank else "better"].append(FindingChange(f, was))
-    return Changes(features, groups)
+    within = [WithinStatus(f, old[f.rule.id].verdict.measured, _direction(old[f.rule.id], f)) for f in after.findings
+              if f.rule.id in old and f.status == old[f.rule.id].status and f.status not in ("pass", NOT_ASSESSED)
+              and f.verdict.measured != old[f.rule.id].verdict.measured]
+    waived = [{(w.rule, w.reason) for w in r.sheet.waivers} for r in (before, after)]
+    waivers = [WaiverChange(rule, "added", reason) for rule, reason in sorted(waived[1] - waived[0])]
+    waivers += [WaiverChange(rule, "removed", reason) for rule, reason in sorted(waived[0] - waived[1])]
+    files = [r.sheet.geometry.file if r.sheet.geometry else "none" for r in (before, after)]
+    return Changes(features, groups, within, waivers, tuple(files) if files[0] != files[1] else None)
+
+
+def _direction(prior: Finding, now: Finding) -> str:
+    """Whether a finding that kept its status moved toward its limit: by its estimate, else its excess
+    beyond the limit, else its distance from the limit."""
+    if prior.counts and now.counts and prior.counts[1] != now.counts[1]:
+        return "better" if now.counts[1] < prior.counts[1] else "worse"
+    pairs = [(leading_number(prior.verdict.margin), leading_number(now.verdict.margin))]
+    limit = leading_number(now.verdict.limit)
+    if limit and limit == leading_number(prior.verdict.limit):
+        pairs.append(tuple(((m[0] - limit[0], m[1]) if m else None)
+                           for m in (leading_number(prior.verdict.measured), leading_number(now.verdict.measured))))
+    for was, is_now in pairs:
+        if was and is_now and was[1] == is_now[1] and abs(was[0]) != abs(is_now[0]):
+            return "better" if abs(is_now[0]) < abs(was[0]) else "worse"
+    return "changed"

@@ -12,6 +12,7 @@ from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, 
 from aeroreview.rules import NOT_ASSESSED, ZONES
 from aeroreview.track_record import pairs, summary
 
+
 def finding_json(finding: Finding) -> dict:
     verdict, rule = finding.verdict, finding.rule
     estimate = None
@@ -37,6 +38,17 @@ def rules_json(reviews: list[Review]) -> dict:
                 rules[rule.id] = {"title": rule.title, "zone": rule.zone, "fix": rule.fix,
                                   "sources": [s.as_dict() for s in rule.sources]}
     return rules
+
+
+def rounded(value):
+    """Floats cut to 10 significant digits, so a converted 130 km/h reads 130.0, not 130.00000000000003."""
+    if isinstance(value, float):
+        return float(f"{value:.10g}")
+    if isinstance(value, dict):
+        return {key: rounded(item) for key, item in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [rounded(item) for item in value]
+    return value
 
 
 def finding_line(sheet, finding: Finding) -> int:

@@ -39,8 +39,13 @@ markdown_extensions:
   - attr_list
   - toc:
       permalink: true
+extra:
+  polyfills:
+    - javascripts/iframe-worker.js  # the search worker from file:// (the offline plugin would fetch it from a CDN)
 plugins:
   - search
+  - offline                 # Material's: plain .html links and the search index as a script, so the site
+                            # (search included) works opened from disk as well as served
   - aeroreview:
       sheets: vehicles          # one sheet per revision: vehicles/<id>/<revision>.yaml
       reference_speed: 130 km/h
@@ -90,7 +95,7 @@ def _pages():
             name = f"{prefix}{entry.name}"
             if entry.is_dir():
                 stack.append((entry, f"{name}/"))
-            elif entry.name.endswith((".md", ".css")):
+            elif entry.name.endswith((".md", ".css", ".js")):
                 yield name, DEMO_ONLY.sub("", entry.read_text(encoding="utf-8"))
 
 

@@ -149,8 +149,19 @@ def from_si(value: float, canonical: str) -> float:
     return (value - offset) / scale
 
 
+def format_number(value: float, digits: int = 3) -> str:
+    """A number for people: ``digits`` significant figures (whole numbers kept whole), thousands
+    separated, no exponent between 1e-4 and 1e9: 2035 gives ``2,035``, 0.5234 ``0.523``, 27.0 ``27``."""
+    if value == 0 or not math.isfinite(value):
+        return f"{value:g}"
+    magnitude = math.floor(math.log10(abs(value)))
+    if not -4 <= magnitude < 9:
+        return f"{value:.{digits}g}"
+    text = f"{value:,.{max(0, digits - 1 - magnitude)}f}"
+    return text.rstrip("0").rstrip(".") if "." in text else text
+
+
 def format_quantity(value: float, canonical: str, digits: int = 3) -> str:
-    """Format an SI float in its canonical unit, e.g. ``27 deg`` or ``0.52``."""
-    shown = from_si(value, canonical)
-    text = f"{shown:.{digits}g}"
+    """Format an SI float in its canonical unit for people, e.g. ``27 deg``, ``2,035 kg`` or ``0.52``."""
+    text = format_number(from_si(value, canonical), digits)
     return f"{text} {canonical}" if canonical else text

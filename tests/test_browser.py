@@ -1,10 +1,12 @@
 """The demo site in a real browser: Debian's Chromium, driven headless by Playwright.
 
-Builds the demo site (with a hostile note added), serves it on 127.0.0.1, opens the home
-page, follows the link to a revision, and checks that every image loaded, that the
+Builds the demo site (with a hostile note added) and opens it twice: served on 127.0.0.1,
+and as files from disk (file://), as the README says it can be. Each time it opens the home
+page, follows the links to a revision, and checks that every image loaded, that the
 findings tables have rows, that the site search finds a demo vehicle by name, that the
-console shows no errors and no script from a sheet ever runs. Screenshots are saved in
-test-artifacts/.
+console shows no errors and no script from a sheet ever runs. At 1400 px wide no table is
+wider than its container and no feature key or rule id breaks across lines, on every page.
+Screenshots are saved in test-artifacts/.
 """
 
 from __future__ import annotations
@@ -27,12 +29,16 @@ ARTIFACTS = ROOT / "test-artifacts"
 
 
 @pytest.fixture(scope="module")
-def served(tmp_path_factory):
+def site(tmp_path_factory):
     kb = copy_knowledge_base(tmp_path_factory.mktemp("kb"))
     sheet = kb / "vehicles/tessel/r2.yaml"
     sheet.write_text(sheet.read_text(encoding="utf-8").replace(
         "notes: |\n", "notes: |\n  Hostile test <script>alert(1)</script><img src=x onerror=alert(2)>\n"), encoding="utf-8")
-    site = build(kb, kb / "out")
+    return build(kb, kb / "out")
+
+
+@pytest.fixture(scope="module")
+def served(site):
     handler = functools.partial(_QuietHandler, directory=str(site))
     server = http.server.ThreadingHTTPServer(("127.0.0.1", 0), handler)
     threading.Thread(target=server.serve_forever, daemon=True).start()
@@ -72,25 +78,32 @@ def search(page, text: str) -> str:
     raise AssertionError(f"the site search found nothing for {text!r}: {page.inner_text('.md-search')[:300]!r}")
 
 
-def test_demo_site_in_the_browser(served, browser):
+@pytest.fixture(params=["served", "file"])
+def base(request, site):
+    """The site's address: served over HTTP, or the built files opened from disk."""
+    return request.getfixturevalue("served") if request.param == "served" else site.as_uri()
+
+
+def test_demo_site_in_the_browser(base, browser):
     ARTIFACTS.mkdir(exist_ok=True)
+    kind = "file" if base.startswith("file:") else "served"
     page = browser.new_page(viewport={"width": 1280, "height": 900})
     errors, dialogs = [], []
     page.on("console", lambda message: errors.append(message.text) if message.type == "error" else None)
     page.on("pageerror", lambda error: errors.append(str(error)))
     page.on("dialog", lambda dialog: (dialogs.append(dialog.message), dialog.dismiss()))
 
-    page.goto(served + "/")
+    page.goto(base + "/index.html")
     page.wait_for_load_state("networkidle")
     assert "Maroska Tessel" in page.inner_text("article")
-    page.screenshot(path=str(ARTIFACTS / "home.png"), full_page=True)
+    page.screenshot(path=str(ARTIFACTS / f"home-{kind}.png"), full_page=True)
 
     page.click("article table >> text=Maroska Tessel")
     page.wait_for_load_state("networkidle")
     page.click("article table >> text=r2")
     page.wait_for_load_state("networkidle")
-    assert page.url.endswith("/fleet/tessel/r2/")
-    page.screenshot(path=str(ARTIFACTS / "revision.png"), full_page=True)
+    assert page.url.endswith("/fleet/tessel/r2.html")  # plain file links: they work from disk too
+    page.screenshot(path=str(ARTIFACTS / f"revision-{kind}.png"), full_page=True)
 
     images = page.evaluate("Array.from(document.images).map(i => [i.src, i.complete, i.naturalWidth])")
     figures = [image for image in images if "/figures/" in image[0]]
@@ -100,13 +113,16 @@ def test_demo_site_in_the_browser(served, browser):
     assert rows >= 30
     assert "Hostile test <script>alert(1)</script>" in page.inner_text("article")
 
-    page.goto(served + "/fleet/tessel/r1/")
+    page.click("nav >> text=Fleet")  # the navigation, from a page two folders down
+    page.wait_for_load_state("networkidle")
+    assert page.url.endswith("/fleet/index.html") and "Maroska Quillon" in page.inner_text("article")
+    page.goto(base + "/fleet/tessel/r1.html")
     page.wait_for_load_state("networkidle")
     loaded = page.evaluate("Array.from(document.images).every(i => i.complete && i.naturalWidth > 0)")
     assert loaded
 
     assert "Quillon" in search(page, "Quillon")
-    page.screenshot(path=str(ARTIFACTS / "search.png"))
+    page.screenshot(path=str(ARTIFACTS / f"search-{kind}.png"))
     assert "Hostile" in search(page, "Hostile")
 
     assert dialogs == [], dialogs
@@ -114,3 +130,40 @@ def test_demo_site_in_the_browser(served, browser):
     page.close()
 
 
+
+
+# Every table sits inside its container; keys (zone.name) and rule ids keep to one line.
+LAYOUT = """() => {
+  const out = {wide: [], broken: []};
+  const article = document.querySelector('article').getBoundingClientRect();
+  for (const table of document.querySelectorAll('article table')) {
+    const box = table.closest('.md-typeset__table') || table.parentElement;
+    if (table.getBoundingClientRect().width > article.width + 1 || table.scrollWidth > box.clientWidth + 1)
+      out.wide.push((table.querySelector('th') || {}).innerText || 'table');
+  }
+  const walker = document.createTreeWalker(document.querySelector('article'), NodeFilter.SHOW_TEXT);
+  for (let node; (node = walker.nextNode());) {
+    for (const match of node.data.matchAll(/[a-z][a-z_]*\\.[a-z][a-z0-9_-]*/g)) {
+      const range = document.createRange();
+      range.setStart(node, match.index);
+      range.setEnd(node, match.index + match[0].length);
+      if (new Set(Array.from(range.getClientRects()).map(r => Math.round(r.top))).size > 1) out.broken.push(match[0]);
+    }
+  }
+  return out;
+}"""
+
+
+def test_layout_at_1400_px(site, browser):
+    page = browser.new_page(viewport={"width": 1400, "height": 900})
+    problems = {}
+    for html in sorted(site.rglob("*.html")):
+        if "assets" in html.parts:
+            continue
+        page.goto(html.as_uri())
+        found = page.evaluate(LAYOUT)
+        if found["wide"] or found["broken"]:
+            problems[html.relative_to(site).as_posix()] = found
+    page.close()
+    assert len(list(site.rglob("*.html"))) > 80
+    assert problems == {}, problems

@@ -25,12 +25,12 @@ def demo_site(tmp_path_factory):
     return build(kb, kb / "out")
 
 
-PAGES = ["index.html", "fleet/index.html", "fleet/tessel/index.html", "fleet/tessel/r1/index.html",
-         "fleet/tessel/r2/index.html", "fleet/tessel/r1-to-r2/index.html", "fleet/quillon/r1-to-r2/index.html",
-         "fleet/dravik/r2/index.html", "rules/index.html", "rules/rear.backlight-angle/index.html",
-         "features/index.html", "methods/index.html", "methods/atmosphere/index.html", "methods/forces/index.html",
-         "methods/roadload/index.html", "methods/wind-averaged/index.html", "methods/ahmed/index.html",
-         "glossary/index.html", "cautions/index.html"]
+PAGES = ["index.html", "fleet/index.html", "fleet/tessel/index.html", "fleet/tessel/r1.html",
+         "fleet/tessel/r2.html", "fleet/tessel/r1-to-r2.html", "fleet/quillon/r1-to-r2.html",
+         "fleet/dravik/r2.html", "rules/index.html", "rules/rear.backlight-angle.html",
+         "features.html", "methods/index.html", "methods/atmosphere.html", "methods/forces.html",
+         "methods/roadload.html", "methods/wind-averaged.html", "methods/ahmed.html",
+         "glossary.html", "cautions.html"]
 
 
 @pytest.mark.parametrize("page", PAGES)
@@ -43,7 +43,7 @@ def images(html: str) -> list[tuple[str, str]]:
 
 
 def test_revision_page_content(demo_site):
-    html = (demo_site / "fleet/tessel/r1/index.html").read_text(encoding="utf-8")
+    html = (demo_site / "fleet/tessel/r1.html").read_text(encoding="utf-8")
     for text in ("Key numbers", "Drag at 130 km/h", "Lift per axle at top speed", "Energy on wltc-3b",
                  "+10 counts on wltc-3b", "Findings by zone", "Ranked fixes", "Attachments", "Notes",
                  "rear.backlight-angle", "Fails the gate", "Cautions"):
@@ -53,11 +53,11 @@ def test_revision_page_content(demo_site):
     assert {"zones", "drag", "lift", "energy", "ahmed", "waterfall"} <= kinds
     for alt, src in figures:
         assert alt.strip(), src
-        assert (demo_site / "fleet/tessel/r1" / src).resolve().is_file(), src
+        assert (demo_site / "fleet/tessel" / src).resolve().is_file(), src
 
 
 def test_yaw_sweep_figure_on_the_revision_with_a_sweep(demo_site):
-    html = (demo_site / "fleet/tessel/r2/index.html").read_text(encoding="utf-8")
+    html = (demo_site / "fleet/tessel/r2.html").read_text(encoding="utf-8")
     assert any("figures/yaw-" in src for _, src in images(html))
     assert "wind-averaged Cd" in unescape(html)
 
@@ -71,14 +71,14 @@ def test_home_fleet_table(demo_site):
 def test_vehicle_page_has_trends_and_diff_links(demo_site):
     html = (demo_site / "fleet/tessel/index.html").read_text(encoding="utf-8")
     assert any("figures/trends-" in src for _, src in images(html)) and "what changed" in html
-    diff = (demo_site / "fleet/tessel/r1-to-r2/index.html").read_text(encoding="utf-8")
+    diff = (demo_site / "fleet/tessel/r1-to-r2.html").read_text(encoding="utf-8")
     assert "rear.backlight_angle" in diff and "Resolved" in diff and "29 deg" in diff
 
 
 def test_rule_page_has_doc_thresholds_sources_figure_and_flagged_revisions(demo_site):
-    html = (demo_site / "rules/rear.backlight-angle/index.html").read_text(encoding="utf-8")
+    html = (demo_site / "rules/rear.backlight-angle.html").read_text(encoding="utf-8")
     for text in ("What it checks", "Why it matters", "How to fix", "Known limits", "critical_low", "published",
-                 "from memory", "Revisions that currently fail or warn", "Maroska Tessel r1"):
+                 "from memory", "Earlier revisions that failed or warned", "Maroska Tessel r1"):
         assert text in html, text
     assert any("figures/ahmed-" in src for _, src in images(html))
 
@@ -106,7 +106,7 @@ def test_sheet_text_is_escaped(tmp_path):
     text = sheet.read_text(encoding="utf-8").replace("name: Maroska Tessel", "name: 'Tessel <b>bold</b> | *x*'")
     text = text.replace("notes: |\n", "notes: |\n  <script>alert(1)</script> [link](javascript:alert(2))\n")
     sheet.write_text(text, encoding="utf-8")
-    html = (build(kb, tmp_path / "out") / "fleet/tessel/r2/index.html").read_text(encoding="utf-8")
+    html = (build(kb, tmp_path / "out") / "fleet/tessel/r2.html").read_text(encoding="utf-8")
     assert "<script>alert" not in html and "&lt;script&gt;alert&#40;1&#41;&lt;/script&gt;" in html
     assert "<script>alert(1)</script>" in unescape(html)  # shown as text, exactly as typed
     assert "<b>bold</b>" not in html and "&lt;b&gt;bold&lt;/b&gt;" in html
@@ -153,5 +153,5 @@ def test_mkdocs_build_strict_from_the_repository_root(tmp_path):
                                                                             "PATH": "/usr/bin:/bin"})
     assert done.returncode == 0, done.stderr
     assert "WARNING" not in done.stderr
-    assert (out / "fleet/tessel/r1/index.html").is_file()
+    assert (out / "fleet/tessel/r1.html").is_file()
     assert not (ROOT / "site_src" / "fleet").exists()  # nothing generated lands in site_src

@@ -41,7 +41,7 @@ def snapshot(folder: Path) -> dict:
 
 
 def complete(site: Path) -> bool:
-    return (site / "index.html").is_file() and (site / "fleet/test-car/r1/index.html").is_file() and \
+    return (site / "index.html").is_file() and (site / "fleet/test-car/r1.html").is_file() and \
         (site / MARKER).is_file()
 
 

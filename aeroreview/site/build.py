@@ -37,16 +37,49 @@ def _config_file(config: str | None) -> str:
     return str(path)
 
 
+class _Progress:
+    """A progress bar for a long build on a terminal (rich); silent when stderr is not one (CI, pipes)."""
+
+    def __init__(self):
+        self.bar = None
+        if sys.stderr.isatty():
+            from rich.console import Console
+            from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn
+
+            self.bar = Progress(TextColumn("{task.description}"), BarColumn(), MofNCompleteColumn(),
+                                console=Console(file=sys.stderr), transient=True)
+        self.task = None
+
+    def __call__(self, stage: str, total: int | None = None) -> None:
+        if self.bar is None:
+            return
+        if stage == "sheets":
+            self.bar.start()
+            self.task = self.bar.add_task(f"reviewing {total} sheets, drawing figures", total=None)
+        elif stage == "pages":
+            self.bar.update(self.task, description="rendering pages", total=total, completed=0)
+        else:
+            self.bar.advance(self.task)
+
+    def stop(self) -> None:
+        if self.bar is not None:
+            self.bar.stop()
+
+
 def build_site(config: str | None = None, output: str | None = None) -> Path:
     """Build the site (atomically: a failed build leaves the previous one in place); return its folder."""
     os.environ.setdefault("NO_MKDOCS_2_WARNING", "1")  # the theme's banner is not about this site
     _show_mkdocs_log()
+    progress = _Progress()
     try:
         cfg = load_config(config_file=_config_file(config), site_dir=output, strict=True)
+        if "aeroreview" in cfg.plugins:
+            cfg.plugins["aeroreview"].progress = progress
         cfg.plugins.on_startup(command="build", dirty=False)
         try:
             mkdocs_build(cfg)
         finally:
+            progress.stop()
             cfg.plugins.on_shutdown()
     except MkDocsException as error:
         raise UsageError(f"site build failed: {error}") from None

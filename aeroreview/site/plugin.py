@@ -24,7 +24,7 @@ from mkdocs.config import base
 from mkdocs.config import config_options as c
 from mkdocs.exceptions import PluginError
 from mkdocs.plugins import BasePlugin
-from mkdocs.structure.files import File
+from mkdocs.structure.files import File, InclusionLevel
 
 from aeroreview.problems import InputError
 from aeroreview.review import review_sheet
@@ -64,6 +64,7 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         self.output: Output | None = None
         self.settings = None
         self.cache: FigureCache | None = None
+        self.progress = lambda stage, total=None: None  # ``aeroreview site build`` shows it on a terminal
 
     def on_startup(self, *, command, dirty):
         self.command = command
@@ -78,6 +79,7 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
                 raise InputError(problems)
         except InputError as error:
             raise PluginError("the review sheets have errors:\n" + "\n".join(str(p) for p in error.problems)) from None
+        self.progress("sheets", len(fleet.sheets))
         reviews = [review_sheet(sheet, self.settings) for sheet in fleet.sheets]
         cache = FigureCache(Path(config.config_file_path).parent / CACHE_FOLDER)
         self.site = generate(reviews, self.settings, cache)
@@ -100,13 +102,15 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
             raise PluginError(str(problem)) from None
 
     def on_files(self, files, *, config):
-        for path, content in sorted(self.site.files.items()):
-            files.append(File.generated(config, path, content=content))
+        for path, content in sorted(self.site.files.items()):  # linked from the generated pages, not the nav
+            files.append(File.generated(config, path, content=content, inclusion=InclusionLevel.NOT_IN_NAV))
+        self.progress("pages", sum(1 for f in files if f.is_documentation_page()))
         for path, source in sorted(self.site.copies.items()):  # attachments, copied unchanged
             files.append(File.generated(config, path, abs_src_path=str(source)))
         return files
 
     def on_page_markdown(self, markdown, *, page, config, files):
+        self.progress("page")
         if page.file.src_uri == "index.md":
             return markdown.replace(FLEET_MARKER, self.site.home_table)
         return markdown

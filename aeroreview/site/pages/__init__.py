@@ -48,6 +48,6 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
             if review.sheet.parent in known:
                 before = known[review.sheet.parent]
                 diff.write(out, before, review, digest.changes(before, review))
-    rules.write(out, reviews)
+    rules.write(out, grouped)
     features.write(out)
     return out.site

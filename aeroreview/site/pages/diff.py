@@ -9,23 +9,45 @@ from aeroreview.site.pages.common import Output, badge, esc, heading, link, reco
 
 def write(out: Output, before: Review, after: Review, changes: Changes) -> None:
     a, b = before.sheet, after.sheet
-    old, new = before.key_numbers, after.key_numbers
     lines = [heading(f"{b.name}: {a.revision} to {b.revision}"), "",
              f"From [{esc(a.revision)}]({a.revision}.md) to [{esc(b.revision)}]({b.revision}.md).", "",
              "## Features that changed", ""]
     rows = [f"| `{c.key}` | {esc(c.before)} | {esc(c.after)} |" for c in changes.features]
     lines += (["| Feature | Before | After |", "|---|---|---|"] + rows) if rows else ["No feature changed."]
-    lines += ["", "## Results", "", "| | Before | After |", "|---|---|---|",
-              f"| Cd | {old['cd']:.3f} | {new['cd']:.3f} |",
-              f"| CdA [m²] | {old['cda']:.3f} | {new['cda']:.3f} |",
-              f"| Score | {score_text(before)} | {score_text(after)} |",
-              f"| Recoverable [counts] | {recoverable_text(before)} | {recoverable_text(after)} |",
-              f"| Energy on {new['cycle']} [kWh/100 km] | "
-              f"{old['energy_kWh_per_100km']:.2f} | {new['energy_kWh_per_100km']:.2f} |",
-              "", "## Findings", ""]
+    if changes.geometry:
+        lines += ["", f"Surface file changed: {esc(changes.geometry[0])} → {esc(changes.geometry[1])}."]
+    lines += ["", "## Results", "", "| | Before | After | Change |", "|---|---|---|---|"]
+    lines += [f"| {label} | {was} | {now} | {delta} |" for label, was, now, delta in _numbers(before, after)]
+    lines += ["", "## Findings", ""]
     for name, items in changes.findings.items():
         lines += [f"### {name.capitalize()} ({len(items)})", ""]
         lines += [f"- {link(f'rules/{c.finding.rule.id}.md', c.finding.rule.id, 2)}: {c.was} → "
                   f"{badge(c.finding.status)} {esc(c.finding.verdict.message)}" for c in items] or ["None."]
         lines.append("")
-    out.page(f"fleet/{b.vehicle_id}/{a.revision}-to-{b.revision}.md", "\n".join(lines))
+    lines += [f"### Changed within their status ({len(changes.within_status)})", ""]
+    lines += [f"- {link(f'rules/{c.finding.rule.id}.md', c.finding.rule.id, 2)}: {badge(c.finding.status)} "
+              f"{esc(c.was_measured)} → {esc(c.finding.verdict.measured)} ({c.direction})"
+              for c in changes.within_status] or ["None."]
+    lines += ["", "## Waivers", ""]
+    lines += [f"- {c.change}: {link(f'rules/{c.rule}.md', c.rule, 2)} ({esc(c.reason)})" for c in changes.waivers] \
+        or ["No waiver added or removed."]
+    out.page(f"fleet/{b.vehicle_id}/{a.revision}-to-{b.revision}.md", "\n".join(lines) + "\n")
+
+
+def _numbers(before: Review, after: Review) -> list[tuple[str, str, str, str]]:
+    """Rows of the results table: label, before, after, change (blank when not comparable)."""
+    old, new = before.key_numbers, after.key_numbers
+    rows = [("Cd", old["cd"], new["cd"], ".3f"), ("CdA [m²]", old["cda"], new["cda"], ".3f"),
+            (f"Energy on {new['cycle']} [kWh/100 km]", old["energy_kWh_per_100km"], new["energy_kWh_per_100km"], ".2f"),
+            ("Range on the cycle [km]", old.get("range_km"), new.get("range_km"), ",.0f")]
+    for axle in ("front", "rear"):
+        lifts = [(n.get("lift_reference") or {}).get(f"{axle}_kg") for n in (old, new)]
+        rows.append((f"Lift on the {axle} axle at {new['reference_speed_km_h']:.0f} km/h [kg]", *lifts, "+.0f"))
+    out = []
+    for label, was, now, spec in rows:
+        shown = [format(v, spec) if v is not None else "not given" for v in (was, now)]
+        delta = format(now - was, "+" + spec.lstrip("+")) if was is not None and now is not None else ""
+        out.append((label, *shown, delta))
+    out += [("Score", score_text(before), score_text(after), ""),
+            ("Recoverable [counts]", recoverable_text(before), recoverable_text(after), "")]
+    return out

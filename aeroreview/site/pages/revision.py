@@ -71,7 +71,7 @@ def key_numbers(review: Review) -> list[str]:
         if effect.get("range_km") is not None:
             parts.append(f"{effect['range_km']:+.1f} km of range")
         rows.append((f"+10 counts on {cycle}", ", ".join(parts)))
-    table = ["## Key numbers", "", "| | |", "|---|---|"] + [f"| {a} | {b} |" for a, b in rows]
+    table = ["## Key numbers", "", "| Quantity | Value |", "|---|---|"] + [f"| {a} | {b} |" for a, b in rows]
     if review.assumptions:
         table += ["", "Assumed where the sheet is silent: " + "; ".join(esc(a) for a in review.assumptions) + "."]
     return table + [""]

@@ -9,7 +9,7 @@ from aeroreview.site.pages.common import Output, badge, esc, link, revision_path
 from aeroreview.site.pages.revision_figures import ahmed_data
 
 
-def write(out: Output, reviews: list[Review]) -> None:
+def write(out: Output, by_vehicle: dict[str, list[Review]]) -> None:
     index = ["# Rules", "", f"{len(all_rules())} rules in {len(ZONES)} zones. Each page is generated from the "
              "rule's code: its documentation, thresholds and sources.", ""]
     for zone, title in ZONES.items():
@@ -19,10 +19,10 @@ def write(out: Output, reviews: list[Review]) -> None:
         index.append("")
     out.page("rules/index.md", "\n".join(index))
     for rule in all_rules().values():
-        out.page(f"rules/{rule.id}.md", rule_page(out, rule, reviews))
+        out.page(f"rules/{rule.id}.md", rule_page(out, rule, by_vehicle))
 
 
-def rule_page(out: Output, rule: Rule, reviews: list[Review]) -> str:
+def rule_page(out: Output, rule: Rule, by_vehicle: dict[str, list[Review]]) -> str:
     lines = [f"# {rule.id}", "", f"**{rule.title}** · zone {ZONES[rule.zone]} · default severity "
              f"{rule.severity} · needs {', '.join(f'`{k}`' for k in rule.needs) or 'results only'}"
              + (f" · applies to {', '.join(rule.applies_to)}" if rule.applies_to else ""), ""]
@@ -39,9 +39,16 @@ def rule_page(out: Output, rule: Rule, reviews: list[Review]) -> str:
         lines += ["## Reference", "", out.figure("ahmed", ahmed_data(ahmed_curve(out.settings, None)),
                                                  "The Ahmed-body drag coefficient against slant angle, with the "
                                                  "critical region near 30 deg", 1), ""]
-    flagged = [(r, f) for r in reviews for f in r.findings
-               if f.rule.id == rule.id and f.status in ("warning", "failure")]
-    lines += ["## Revisions that currently fail or warn", ""]
-    lines += [f"- {link(revision_path(r), f'{esc(r.sheet.name)} {esc(r.sheet.revision)}', 1)}: "
-              f"{badge(f.status)} {esc(f.verdict.message)}" for r, f in flagged] or ["None."]
+    latest = [revisions[-1] for revisions in by_vehicle.values()]
+    earlier = [r for revisions in by_vehicle.values() for r in revisions[:-1]]
+    lines += ["## Latest revisions that fail or warn", "", "Each vehicle's latest revision.", ""]
+    lines += _flagged(rule, latest) or ["None."]
+    lines += ["", "## Earlier revisions that failed or warned", "", "Superseded revisions, for the record.", ""]
+    lines += _flagged(rule, earlier) or ["None."]
     return "\n".join(lines) + "\n"
+
+
+def _flagged(rule: Rule, reviews: list[Review]) -> list[str]:
+    return [f"- {link(revision_path(r), f'{esc(r.sheet.name)} {esc(r.sheet.revision)}', 1)}: "
+            f"{badge(f.status)} {esc(f.verdict.message)}"
+            for r in reviews for f in r.findings if f.rule.id == rule.id and f.status in ("warning", "failure")]
