@@ -50,4 +50,5 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
                 diff.write(out, before, review, digest.changes(before, review))
     rules.write(out, grouped)
     features.write(out)
+    out.draw_figures()
     return out.site
