@@ -16,10 +16,11 @@ from pathlib import Path
 
 from aeroreview import __version__, baseline, calc_cli, report, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
+from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError, clean
 from aeroreview.rules import REGIONS, RULES_HINT, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
-from aeroreview.sheet import load_fleet, sheet_files, suggest
+from aeroreview.sheet import load_fleet, sheet_files
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 
@@ -123,6 +124,24 @@ def _cmd_site(args) -> int:
     return EXIT_CLEAN
 
 
+def _measure_figures(measure, result, folder: Path, source: str) -> list[Path]:
+    """Draw the centreline section and the horizontal sections as SVG into ``folder``."""
+    from aeroreview.site.figures import FigureCache
+
+    folder.mkdir(parents=True, exist_ok=True)
+    cache = FigureCache(None)
+    written = []
+    if result.centreline is not None:
+        _, svg = cache.svg("silhouette", measure.silhouette_data(result, title=f"{source}: centreline section"))
+        written.append(folder / "centreline.svg")
+        written[-1].write_bytes(svg)
+    if result.sections:
+        _, svg = cache.svg("sections", measure.sections_data(result))
+        written.append(folder / "sections.svg")
+        written[-1].write_bytes(svg)
+    return written
+
+
 def _cmd_measure(args) -> int:
     from aeroreview import measure  # trimesh loads only when a surface is measured
 
@@ -137,7 +156,7 @@ def _cmd_measure(args) -> int:
     for note in surface.notes:
         print(f"{args.surface}: {note}", file=sys.stderr)
     if args.figures:
-        for path in measure.write_figures(result, Path(args.figures), source):
+        for path in _measure_figures(measure, result, Path(args.figures), source):
             print(f"wrote {path}", file=sys.stderr)
     if args.sheet:
         report = measure.merge_into_sheet(args.sheet, result, source, args.overwrite)

@@ -427,21 +427,3 @@ def sections_data(result: Result) -> dict:
                           + (f", taper {s['taper_deg']:.1f} deg" if s["taper_deg"] is not None else ""),
                           "upper": _thin(s["outline"].upper, 200), "lower": _thin(s["outline"].lower, 200)}
                          for s in result.sections]}
-
-
-def write_figures(result: Result, folder: Path, source: str) -> list[Path]:
-    """Draw the centreline section and the horizontal sections as SVG into ``folder``."""
-    from aeroreview.site.figures import FigureCache
-
-    folder.mkdir(parents=True, exist_ok=True)
-    cache = FigureCache(None)
-    written = []
-    if result.centreline is not None:
-        _, svg = cache.svg("silhouette", silhouette_data(result, title=f"{source}: centreline section"))
-        written.append(folder / "centreline.svg")
-        written[-1].write_bytes(svg)
-    if result.sections:
-        _, svg = cache.svg("sections", sections_data(result))
-        written.append(folder / "sections.svg")
-        written[-1].write_bytes(svg)
-    return written

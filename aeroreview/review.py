@@ -26,11 +26,11 @@ from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivit
 from aeroreview.estimate import Estimate, Frame, claim_of, estimate, frame_for, score
 from aeroreview.problems import Problem
 from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict
-from aeroreview.rules.data import CLASS_CD
+from aeroreview.rules.data import CLASS_CD, measured_cd
 from aeroreview.rules.stability import axle_figures
 from aeroreview.settings import Settings, status_rank
 from aeroreview.sheet import Sheet
-from aeroreview.vehicle import measured_cd, vehicle_from_sheet
+from aeroreview.vehicle import vehicle_from_sheet
 
 UNSCORED_ZONES = ("data",)  # data quality feeds coverage and confidence, not the score
 ADDITIVITY_NOTE = ("effects do not simply add: fixes on one flow share its drag budget and the total saturates "

@@ -27,9 +27,9 @@ from aeroreview import yamldoc
 from aeroreview.calc.air import Air, air_state
 from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
+from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError
 from aeroreview.rules import RULES_HINT, SEVERITIES, STATUSES, Context, Rule, all_rules
-from aeroreview.sheet import suggest
 from aeroreview.units import UnitProblem, to_si
 
 REFERENCE_SPEED = 130 / 3.6  # m/s: the motorway speed reviewers quote drag and power at (common practice)

@@ -25,28 +25,27 @@ warnings on the sheet. Nothing here ever writes to the user's file.
 from __future__ import annotations
 
 import datetime as _dt
-import difflib
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from aeroreview import catalogue, yamldoc
+from aeroreview import catalogue, sections, yamldoc
 from aeroreview.catalogue import Feature
+from aeroreview.names import close_match, suggest
 from aeroreview.paths import PathProblem, contained_file
 from aeroreview.problems import InputError, Problem, echo
 from aeroreview.rules import RULES_HINT, all_rules
+from aeroreview.sections import (MAX_GROUND, MAX_TEXT, RESULT_KINDS, Attachment, Field, Geometry, Result, Section,
+                                 Waiver, YawPoint)
 from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
-SLUG = re.compile(r"^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$")
-RULE_ID = re.compile(r"^[a-z]+\.[a-z0-9-]+$")
-IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".svg", ".webp", ".gif")
-RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
-MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
+__all__ = ["MAX_TEXT", "RESULT_KINDS", "Attachment", "Geometry", "Result", "Sheet", "Value", "Waiver", "YawPoint",
+           "from_document", "load_fleet", "load_sheet", "sheet_files"]
 
-TOP_LEVEL = ("id", "revision", "parent", "name", "reviewed", "reviewer",
-             "features", "results", "waivers", "notes", "attachments", "geometry")
+SLUG = re.compile(sections.SLUG)
+IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".svg", ".webp", ".gif")
 SURFACE_SUFFIXES = (".stl", ".obj", ".ply", ".csv")
-MAX_GROUND = 1e6  # |ground| in file units: 1 km in mm, beyond any surface file (common practice)
+ISO_DATE = re.compile(r"^\d{4}-\d{2}-\d{2}$")  # a quoted date, as JSON and editors write it
 # A value still to be filled in: the template writes ``<e.g. 4.8 m>``, so no unfilled
 # template passes for a real sheet. Angle brackets never start a unit or a name.
 PLACEHOLDER = re.compile(r"^<[^<>\n]{0,200}>$")
@@ -69,56 +68,6 @@ class Value:
         if item.kind == "quantity":
             return format_quantity(float(self.value), item.unit)
         return str(self.value).lower() if isinstance(self.value, bool) else str(self.value)
-
-
-@dataclass(frozen=True)
-class YawPoint:
-    yaw: float  # rad
-    cd: float
-    cl_front: float | None = None
-    cl_rear: float | None = None
-
-
-@dataclass(frozen=True)
-class Result:
-    """A CFD, wind-tunnel or road result for the revision (coefficients on the frontal area)."""
-
-    kind: str
-    label: str
-    speed: float | None  # m/s
-    cd: float
-    cl_front: float | None = None
-    cl_rear: float | None = None
-    scale: float = 1.0  # model scale, 1.0 is full size
-    reference_area: float | None = None  # m^2; None means the sheet's frontal area
-    yaw_sweep: tuple[YawPoint, ...] = ()
-
-
-@dataclass(frozen=True)
-class Waiver:
-    rule: str
-    reason: str
-    by: str = ""
-    expires: _dt.date | None = None
-    line: int = 1
-
-
-@dataclass(frozen=True)
-class Attachment:
-    file: str  # relative to the sheet's folder, checked to stay inside it
-    zone: str
-    caption: str
-
-
-@dataclass(frozen=True)
-class Geometry:
-    """The revision's surface or profile, and how to read it (see ``aeroreview measure``)."""
-
-    file: str  # relative to the sheet's folder, checked to stay inside it
-    units: str | None = None
-    nose: str = "-x"
-    up: str = "+z"
-    ground: float | None = None  # in file units
 
 
 @dataclass
@@ -154,21 +103,6 @@ class Sheet:
     @property
     def label(self) -> str:
         return f"{self.vehicle_id}@{self.revision}"
-
-
-def suggest(word: str, options, elsewhere: str = "see `aeroreview schema` for the valid keys") -> str:
-    """A did-you-mean hint for a mistyped word; else the options when they are few, else where to look."""
-    options = [str(o) for o in options]
-    close = close_match(word, options)
-    if close:
-        return f"did you mean '{close}'?"
-    return f"choose one of {', '.join(options)}" if 0 < len(options) <= 8 else elsewhere
-
-
-def close_match(word: str, options) -> str | None:
-    """The option closest to a mistyped word, if one is close enough to be what was meant."""
-    close = difflib.get_close_matches(word, [str(o) for o in options], n=1, cutoff=0.6)
-    return close[0] if close else None
 
 
 class _Checker:
@@ -216,14 +150,6 @@ class _Checker:
             return ""
         return value
 
-    def slug(self, data: dict, key: str, required: bool) -> str:
-        value = self.text(data, key, required=required, limit=200)
-        if value and not SLUG.match(value):
-            self.error((key,), f"'{key}' must be a safe slug, got '{value}'",
-                       "use lowercase letters, digits and inner hyphens only (it becomes a URL and a file name)")
-            return ""
-        return value
-
     def date(self, data: dict, key: str, path=()) -> _dt.date | None:
         value = data.get(key)
         if value is None:
@@ -232,7 +158,12 @@ class _Checker:
             return value.date()
         if isinstance(value, _dt.date):
             return value
-        self.error(path + (key,), f"'{key}' must be a date, got '{value}'", "write it as YYYY-MM-DD")
+        if isinstance(value, str) and ISO_DATE.match(value):
+            try:
+                return _dt.date.fromisoformat(value)
+            except ValueError:
+                pass
+        self.error(path + (key,), f"'{key}' must be a date, got '{echo(value)}'", "write it as YYYY-MM-DD")
         return None
 
     def mapping(self, data, path, name) -> dict:
@@ -250,6 +181,47 @@ class _Checker:
             self.error(path, f"'{name}' must be a list, got {type(data).__name__}", "start each item with '- '")
             return []
         return data
+
+    def items(self, data, path, name):
+        """(path, mapping) of each non-empty mapping in the list ``data``."""
+        for i, raw in enumerate(self.sequence(data, path, name)):
+            raw = self.mapping(raw, path + (i,), f"{name}[{i}]")
+            if raw:
+                yield path + (i,), raw
+
+    def fields(self, section: Section, raw: dict, path) -> dict:
+        """Every declared field of one mapping of ``section``, read and checked; unknown keys reported."""
+        self.unknown_keys(raw, section.names, path)
+        return {item.name: self.field(item, raw, path) for item in section.fields}
+
+    def field(self, item: Field, data: dict, path):
+        """One field by its declaration; None (or "" for text) when absent or wrong, the problem recorded."""
+        if item.kind == "number":
+            return self.number(data, item.name, item.unit, path, item.required, item.bounds)
+        if item.kind == "date":
+            return self.date(data, item.name, path)
+        if item.kind == "list":
+            where = path + (item.name,)
+            return [self.fields(item.items, raw, at) for at, raw in self.items(data.get(item.name), where, item.name)]
+        if item.kind == "raw":
+            return data.get(item.name)
+        raw = data.get(item.name)
+        value = self.text(data, item.name, path, item.required, item.limit)
+        if raw is None or (value == "" and raw != ""):
+            return value  # absent, or already reported
+        where = path + (item.name,)
+        if item.required and not value:
+            self.error(where, f"'{item.name}' is empty", f"write the {item.name}, or remove the entry")
+        elif item.kind == "file":
+            return value  # its path rules are safe_file's
+        elif item.choices and value not in item.choices:
+            self.error(where, f"'{item.name}' must be one of {', '.join(item.choices)}, got '{echo(value)}'",
+                       suggest(value, item.choices))
+            return ""
+        if item.pattern and not re.search(item.pattern, value):
+            self.error(where, f"'{item.name}' must be {item.pattern_what}, got '{echo(value)}'", item.pattern_hint)
+            return ""
+        return value
 
     def unknown_keys(self, data: dict, allowed, path):
         for key in data:
@@ -287,9 +259,8 @@ class _Checker:
             lines[key] = self.doc.where(path, key=True)[0]
             source = note = ""
             if isinstance(raw, dict):
-                self.unknown_keys(raw, ("value", "source", "note"), path)
-                source = self.text(raw, "source", path, limit=500)
-                note = self.text(raw, "note", path, limit=2000)
+                meta = self.fields(sections.FEATURE_VALUE, raw, path)
+                source, note = meta["source"], meta["note"]
                 if "value" not in raw:
                     self.error(path, f"'{key}' has no 'value'", "write `{value: ..., source: ...}`")
                     continue
@@ -341,83 +312,33 @@ class _Checker:
 
     def results(self, data) -> list[Result]:
         out = []
-        allowed = ("kind", "label", "speed", "cd", "cl_front", "cl_rear", "scale", "reference_area",
-                   "yaw_sweep", "date", "source")
-        for i, raw in enumerate(self.sequence(data, ("results",), "results")):
-            path = ("results", i)
-            raw = self.mapping(raw, path, f"results[{i}]")
-            if not raw:
-                continue
-            self.unknown_keys(raw, allowed, path)
-            kind = self.text(raw, "kind", path, required=True, limit=20)
-            if kind and kind not in RESULT_KINDS:
-                self.error(path + ("kind",), f"result kind '{kind}' is not one of {', '.join(RESULT_KINDS)}",
-                           suggest(kind, RESULT_KINDS))
-            cd = self.number(raw, "cd", "", path, required=True, bounds=(0.05, 2.0))
-            sweep = []
-            for j, point in enumerate(self.sequence(raw.get("yaw_sweep"), path + ("yaw_sweep",), "yaw_sweep")):
-                where = path + ("yaw_sweep", j)
-                point = self.mapping(point, where, f"yaw_sweep[{j}]")
-                if not point:
-                    continue
-                self.unknown_keys(point, ("yaw", "cd", "cl_front", "cl_rear"), where)
-                yaw = self.number(point, "yaw", "deg", where, required=True, bounds=(-90, 90))
-                point_cd = self.number(point, "cd", "", where, required=True, bounds=(0.05, 2.0))
-                if yaw is not None and point_cd is not None:
-                    sweep.append(YawPoint(yaw, point_cd, self.number(point, "cl_front", "", where, bounds=(-3, 3)),
-                                          self.number(point, "cl_rear", "", where, bounds=(-3, 3))))
-            self.date(raw, "date", path)
-            result = Result(
-                kind=kind, label=self.text(raw, "label", path, limit=200) or f"{kind} {i + 1}",
-                speed=self.number(raw, "speed", "km/h", path, bounds=(1, 600)), cd=cd,
-                cl_front=self.number(raw, "cl_front", "", path, bounds=(-3, 3)),
-                cl_rear=self.number(raw, "cl_rear", "", path, bounds=(-3, 3)),
-                scale=self.number(raw, "scale", "", path, bounds=(0.01, 1.0)) or 1.0,
-                reference_area=self.number(raw, "reference_area", "m^2", path, bounds=(0.01, 12)),
-                yaw_sweep=tuple(sorted(sweep, key=lambda p: p.yaw)),
-            )
-            self.text(raw, "source", path, limit=500)
-            if cd is not None and kind in RESULT_KINDS:
-                out.append(result)
+        for path, raw in self.items(data, ("results",), "results"):
+            values = self.fields(sections.RESULT, raw, path)
+            sweep = [YawPoint(**point) for point in values["yaw_sweep"]
+                     if point["yaw"] is not None and point["cd"] is not None]
+            if values["cd"] is not None and values["kind"] in RESULT_KINDS:
+                out.append(Result(**{**values, "label": values["label"] or f"{values['kind']} {path[-1] + 1}",
+                                     "scale": values["scale"] or 1.0,
+                                     "yaw_sweep": tuple(sorted(sweep, key=lambda p: p.yaw))}))
         return out
 
     def waivers(self, data) -> list[Waiver]:
         out = []
-        for i, raw in enumerate(self.sequence(data, ("waivers",), "waivers")):
-            path = ("waivers", i)
-            raw = self.mapping(raw, path, f"waivers[{i}]")
-            if not raw:
-                continue
-            self.unknown_keys(raw, ("rule", "reason", "by", "expires"), path)
-            rule = self.text(raw, "rule", path, required=True, limit=80)
-            if rule and not RULE_ID.match(rule):
-                self.error(path + ("rule",), f"'{rule}' is not a rule id", "rule ids read zone.name, see `aeroreview rules`")
-                rule = ""
-            elif rule and rule not in all_rules():
+        for path, raw in self.items(data, ("waivers",), "waivers"):
+            values = self.fields(sections.WAIVER, raw, path)
+            rule = values["rule"]
+            if rule and rule not in all_rules():
                 self.error(path + ("rule",), f"waiver for unknown rule '{rule}'", suggest(rule, all_rules(), RULES_HINT))
-            reason = self.text(raw, "reason", path, required=True, limit=2000)
-            if rule and reason.strip():
-                out.append(Waiver(rule, reason, self.text(raw, "by", path, limit=200),
-                                  self.date(raw, "expires", path), self.doc.where(path)[0]))
-            elif rule and "reason" in raw:
-                self.error(path + ("reason",), "a waiver needs a reason", "say why the finding is accepted")
+            elif rule and values["reason"]:
+                out.append(Waiver(**values, line=self.doc.where(path)[0]))
         return out
 
     def attachments(self, data) -> list[Attachment]:
         out = []
-        for i, raw in enumerate(self.sequence(data, ("attachments",), "attachments")):
-            path = ("attachments", i)
-            raw = self.mapping(raw, path, f"attachments[{i}]")
-            if not raw:
-                continue
-            self.unknown_keys(raw, ("file", "zone", "caption"), path)
-            file = self.text(raw, "file", path, required=True, limit=300)
-            zone = self.text(raw, "zone", path, required=True, limit=40)
-            caption = self.text(raw, "caption", path, limit=1000)
-            if zone and zone not in catalogue.ALL_ZONES:
-                self.error(path + ("zone",), f"unknown zone '{zone}'", suggest(zone, catalogue.ALL_ZONES))
-            if file and self.safe_file(file, path + ("file",)):
-                out.append(Attachment(file, zone, caption))
+        for path, raw in self.items(data, ("attachments",), "attachments"):
+            values = self.fields(sections.ATTACHMENT, raw, path)
+            if values["file"] and self.safe_file(values["file"], path + ("file",)):
+                out.append(Attachment(**values))
         return out
 
     def geometry(self, data) -> Geometry | None:
@@ -429,12 +350,8 @@ class _Checker:
         if not data:
             return None
         path = ("geometry",)
-        self.unknown_keys(data, ("file", "units", "nose", "up", "ground"), path)
-        file = self.text(data, "file", path, required=True, limit=300)
-        options = {"units": ("mm", "m"), "nose": ("-x", "+x"), "up": ("+z", "+y")}
-        for key, allowed in options.items():
-            if key in data and data[key] not in allowed:
-                self.error(path + (key,), f"geometry {key} must be one of {', '.join(allowed)}", suggest(str(data[key]), allowed))
+        values = self.fields(sections.GEOMETRY, data, path)
+        file = values["file"]
         ground = data.get("ground")
         if ground is not None and (isinstance(ground, bool) or not isinstance(ground, (int, float))
                                    or not abs(ground) <= MAX_GROUND):
@@ -442,7 +359,7 @@ class _Checker:
                        f"±{MAX_GROUND:g}", "e.g. ground: 0")
             ground = None
         if file and self.safe_file(file, path + ("file",), SURFACE_SUFFIXES, "surface"):
-            return Geometry(file, data.get("units"), data.get("nose", "-x"), data.get("up", "+z"),
+            return Geometry(file, values["units"] or None, values["nose"] or "-x", values["up"] or "+z",
                             None if ground is None else float(ground))
         return None
 
@@ -509,10 +426,10 @@ def check_document(doc: yamldoc.Document, folder: Path, allow_placeholders: bool
                                       "start with `id: ...`, `revision: ...` and `features:` lines")])
     check = _Checker(doc, folder, allow_placeholders)
     data = doc.data
-    check.unknown_keys(data, TOP_LEVEL, ())
-    vehicle_id = check.slug(data, "id", required=True)
-    revision = check.slug(data, "revision", required=True)
-    parent = check.slug(data, "parent", required=False) or None
+    top = {f.name: f for f in sections.TOP_LEVEL.fields}
+    check.unknown_keys(data, sections.TOP_LEVEL.names, ())
+    vehicle_id, revision = check.field(top["id"], data, ()), check.field(top["revision"], data, ())
+    parent = check.field(top["parent"], data, ()) or None
     if parent and parent == revision:
         check.error(("parent",), "a revision cannot be its own parent", "name the revision this one came from")
     notes = data.get("notes")
@@ -523,8 +440,8 @@ def check_document(doc: yamldoc.Document, folder: Path, allow_placeholders: bool
     features, lines = check.features(data.get("features"))
     sheet = Sheet(
         path=doc.file, vehicle_id=vehicle_id, revision=revision,
-        name=check.text(data, "name", limit=120) or vehicle_id, parent=parent,
-        reviewed=check.date(data, "reviewed"), reviewer=check.text(data, "reviewer", limit=200),
+        name=check.field(top["name"], data, ()) or vehicle_id, parent=parent,
+        reviewed=check.field(top["reviewed"], data, ()), reviewer=check.field(top["reviewer"], data, ()),
         features=features, results=check.results(data.get("results")), waivers=check.waivers(data.get("waivers")),
         notes=check.text(data, "notes"), attachments=check.attachments(data.get("attachments")),
         geometry=check.geometry(data.get("geometry")),

@@ -10,8 +10,9 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from aeroreview.calc.roadload import FUEL_HEATING_VALUE, ROTATING_MASS_FACTOR, Vehicle
+from aeroreview.rules.data import measured_cd
 
-if TYPE_CHECKING:  # the sheet checks waivers against the rules, and some rules use this module
+if TYPE_CHECKING:  # the sheet checks waivers against the rules: import it for types only
     from aeroreview.sheet import Sheet
 
 TEST_PAYLOAD = 100.0  # kg on top of curb mass: driver and luggage, near WLTP test mass (common practice)
@@ -24,20 +25,6 @@ DEFAULTS = {
     "powertrain.engine_efficiency": (0.30, "from memory: cycle-average brake efficiency of a car engine"),
     "mass.rotating_mass_factor": (ROTATING_MASS_FACTOR, "from memory (Gillespie 1992, ch. 2)"),
 }
-
-
-def measured_cd(sheet: Sheet) -> tuple[float, str] | None:
-    """The revision's best drag coefficient and where it came from.
-
-    Preference: full-scale tunnel or road, then CFD, then model-scale tunnel, then estimates;
-    the first listed result wins within a kind.
-    """
-    order = {"road": 0, "tunnel": 1, "cfd": 2, "estimate": 4}
-    ranked = sorted(sheet.results, key=lambda r: order[r.kind] + (2 if r.kind == "tunnel" and r.scale < 1 else 0))
-    if not ranked:
-        return None
-    best = ranked[0]
-    return best.cd, f"{best.kind}: {best.label}"
 
 
 def vehicle_from_sheet(sheet: Sheet, cd: float | None = None, area: float | None = None) -> tuple[Vehicle, list[str]]:

@@ -6,7 +6,21 @@ import math
 
 from aeroreview.calc.forces import reynolds_number
 from aeroreview.rules import COMMON, Source, Threshold, major, not_assessed, passed, rule
-from aeroreview.vehicle import measured_cd
+
+
+def measured_cd(sheet) -> tuple[float, str] | None:
+    """The revision's best drag coefficient and where it came from.
+
+    Preference: full-scale tunnel or road, then CFD, then model-scale tunnel, then estimates;
+    the first listed result wins within a kind.
+    """
+    order = {"road": 0, "tunnel": 1, "cfd": 2, "estimate": 4}
+    ranked = sorted(sheet.results, key=lambda r: order[r.kind] + (2 if r.kind == "tunnel" and r.scale < 1 else 0))
+    if not ranked:
+        return None
+    best = ranked[0]
+    return best.cd, f"{best.kind}: {best.label}"
+
 
 # Drag coefficient ranges of current production bodies by class (low, high); see CD_SOURCE.
 CLASS_CD = {

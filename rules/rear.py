@@ -82,7 +82,8 @@ def backlight_angle(sheet, ctx):
     generous = ratio is not None and ratio >= ctx["generous_radius"]
     radius_text = f"; roof radius r / sqrt(A) = {ratio:.2f}" if ratio is not None else "; roof radius not given"
     measured = f"{degrees:.1f} deg{radius_text}"
-    reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(max(high + 1, 35.0)))
+    beyond = min(max(high + 1, 35.0), SQUARE_BACK_ANGLE)  # past the region, on the published curve
+    reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(beyond))
     step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
     steadied = 1 - 0.6 * min(1.0, (ratio or 0.0) / ctx["generous_radius"])  # the radius lowers the estimate too
     counts = counts_range(200 * (step - spread) * steadied, 600 * (step + spread) * steadied)

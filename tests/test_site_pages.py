@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import re
 
+import pytest
+
 from aeroreview.review import review_sheet
 from aeroreview.settings import Settings
 from aeroreview.sheet import load_fleet
@@ -32,11 +34,26 @@ def test_lift_figure_and_key_numbers_show_the_same_front_lift_with_a_reference_a
     assert int(table.group(1)) == int(figure.group(1)) == round(expected)
 
 
-def test_attachments_are_copied_by_the_plugin_not_read_by_the_pages():
+@pytest.fixture(scope="module")
+def demo(tmp_path_factory):
     settings = Settings(root=ROOT)
-    reviews = [review_sheet(s, settings) for s in load_fleet([VEHICLES]).sheets if s.label == "tessel@r1"]
-    site = generate(reviews, settings, FigureCache(None))
-    assert site.copies, "the Tessel r1 sheet has attachments"
+    reviews = [review_sheet(s, settings) for s in load_fleet([VEHICLES]).sheets]
+    return generate(reviews, settings, FigureCache(tmp_path_factory.mktemp("cache") / "figures"))
+
+
+def test_attachments_are_copied_by_the_plugin_not_read_by_the_pages(demo):
+    site = demo
+    assert [t for t in site.copies if t.startswith("fleet/tessel/files/r1/")], "the Tessel r1 sheet has attachments"
     for target, source in site.copies.items():
-        assert target.startswith("fleet/tessel/files/r1/") and source.is_file()
+        assert target.startswith("fleet/") and "/files/" in target and source.is_file()
         assert target not in site.files
+
+
+def test_a_source_kind_is_shown_once_after_its_citation(demo):
+    """A citation that already names its kind ("...; from memory") is not followed by "(from memory)" again."""
+    pages = {path: text for path, text in demo.files.items() if path.endswith(".md")}
+    assert any("(from memory)" in text for text in pages.values())
+    for kind in ("from memory", "common practice", "published"):
+        for mark in ("", "*"):
+            repeated = f"{kind}{mark}) ({mark}{kind}"
+            assert not [path for path, text in pages.items() if repeated in text], repeated

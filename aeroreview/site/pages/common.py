@@ -52,6 +52,11 @@ def badge(status: str) -> str:
     return f'<span class="ar-status ar-{css}">{status}</span>'
 
 
+def kind_suffix(source, mark: str = "") -> str:
+    """" (from memory)" after a citation, unless the citation already names its kind."""
+    return "" if source.kind in source.citation.lower() else f" ({mark}{source.kind}{mark})"
+
+
 def link(target: str, text: str, depth: int) -> str:
     """A Markdown link to a page given from the docs root, from a page ``depth`` folders down."""
     return f"[{text}]({'../' * depth}{target})"

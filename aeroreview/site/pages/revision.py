@@ -10,8 +10,8 @@ from aeroreview.review import ADDITIVITY_NOTE, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES
 from aeroreview.settings import status_rank
 from aeroreview.site.pages import revision_figures
-from aeroreview.site.pages.common import (CAUTION, Output, badge, esc, heading, link, paragraphs, recoverable_text,
-                                          revision_path, score_text)
+from aeroreview.site.pages.common import (CAUTION, Output, badge, esc, heading, kind_suffix, link, paragraphs,
+                                          recoverable_text, revision_path, score_text)
 
 
 def write(out: Output, review: Review, figures: RevisionFigures) -> None:
@@ -102,7 +102,7 @@ def findings(review: Review) -> list[str]:
 
 
 def sources(f: Finding) -> str:
-    return "; ".join(f"{esc(s.citation)} ({s.kind})" for s in f.rule.sources)
+    return "; ".join(f"{esc(s.citation)}{kind_suffix(s)}" for s in f.rule.sources)
 
 
 def waiver(f: Finding) -> str:

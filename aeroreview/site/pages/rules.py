@@ -5,7 +5,7 @@ from __future__ import annotations
 from aeroreview.digest import ahmed_curve
 from aeroreview.review import Review
 from aeroreview.rules import ZONES, Rule, all_rules
-from aeroreview.site.pages.common import Output, badge, esc, link, revision_path
+from aeroreview.site.pages.common import Output, badge, esc, kind_suffix, link, revision_path
 from aeroreview.site.pages.revision_figures import ahmed_data
 
 
@@ -34,7 +34,7 @@ def rule_page(out: Output, rule: Rule, by_vehicle: dict[str, list[Review]]) -> s
         lines += [f"| `{t.name}` | {t.default} | {t.description} | {t.source.citation} | {t.source.kind} |"
                   for t in rule.thresholds]
         lines.append("")
-    lines += ["## Sources", ""] + [f"- {s.citation} (*{s.kind}*)" for s in rule.sources] + [""]
+    lines += ["## Sources", ""] + [f"- {s.citation}{kind_suffix(s, '*')}" for s in rule.sources] + [""]
     if rule.figure == "ahmed":
         lines += ["## Reference", "", out.figure("ahmed", ahmed_data(ahmed_curve(out.settings, None)),
                                                  "The Ahmed-body drag coefficient against slant angle, with the "
