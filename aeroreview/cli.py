@@ -20,7 +20,7 @@ from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError, clean
 from aeroreview.rules import REGIONS, RULES_HINT, ZONES, all_rules
 from aeroreview.settings import FAIL_LEVELS, load_settings
-from aeroreview.sheet import load_fleet, sheet_files
+from aeroreview.sheet import attachment_problems, load_fleet, sheet_files
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 
@@ -62,7 +62,7 @@ def _cmd_check(args) -> int:
     settings = load_settings(args.config)
     fail_on = args.fail_on or settings.fail_on
     fleet = load_fleet(args.paths or [settings.sheets_path])
-    problems = fleet.problems
+    problems = fleet.problems + attachment_problems(fleet.sheets, settings.max_attachment_bytes)
     bad_files = {p.file for p in problems}
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
     before = baseline.load(args.baseline) if args.baseline else None

@@ -176,6 +176,7 @@ class Attachment:
     file: str  # relative to the sheet's folder, checked to stay inside it
     zone: str
     caption: str
+    line: int = 1  # where the sheet names the file
 
 
 @dataclass(frozen=True)

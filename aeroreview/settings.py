@@ -35,6 +35,10 @@ from aeroreview.units import UnitProblem, to_si
 REFERENCE_SPEED = 130 / 3.6  # m/s: the motorway speed reviewers quote drag and power at (common practice)
 FAIL_LEVELS = ("advisory", "warning", "failure", "never")
 CONFIG_NAME = "mkdocs.yml"
+# An attachment is a photo, sketch or drawing export: a few MB (common practice); the site copies
+# each into every build, so a team raises the limit knowingly, up to MAX_ATTACHMENT_MB.
+ATTACHMENT_BYTES = 20_000_000
+MAX_ATTACHMENT_MB = 2000
 
 
 @dataclass(frozen=True)
@@ -57,6 +61,7 @@ class Settings:
     fail_on: str = "failure"
     overrides: dict[str, RuleOverride] = field(default_factory=dict)
     estimates: Model = DEFAULT_MODEL  # floors and region budgets of the combination model
+    max_attachment_bytes: int = ATTACHMENT_BYTES
     source: str = "built-in defaults"
 
     def air(self) -> Air:
@@ -110,7 +115,7 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
 
     if not isinstance(section, dict):
         raise InputError([doc.problem(path, "the aeroreview settings must be a mapping", "write key: value lines")])
-    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "estimates")
+    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "estimates", "max_attachment_mb")
     for key in section:
         if key not in allowed:
             error((key,), f"unknown setting '{key}'", suggest(str(key), allowed), key=True)
@@ -159,6 +164,13 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
             error(("fail_on",), f"fail_on must be one of {', '.join(FAIL_LEVELS)}", suggest(str(section["fail_on"]),
                                                                                            FAIL_LEVELS))
     settings.overrides = _overrides(section.get("rules") or {}, error)
+    if "max_attachment_mb" in section:
+        size = section["max_attachment_mb"]
+        if isinstance(size, bool) or not isinstance(size, (int, float)) or not 0 < size <= MAX_ATTACHMENT_MB:
+            error(("max_attachment_mb",), f"max_attachment_mb must be a number of megabytes above 0, at most "
+                  f"{MAX_ATTACHMENT_MB}", "e.g. max_attachment_mb: 20")
+        else:
+            settings.max_attachment_bytes = int(size * 1_000_000)
     if "estimates" in section:
         settings.estimates = model_from_mapping(section["estimates"], lambda where, *rest, **kw:
                                                 error(("estimates", *where), *rest, **kw))

@@ -40,10 +40,13 @@ from aeroreview.sections import (MAX_GROUND, MAX_TEXT, RESULT_KINDS, Attachment,
 from aeroreview.units import UnitProblem, format_quantity, from_si, to_si
 
 __all__ = ["MAX_TEXT", "RESULT_KINDS", "Attachment", "Geometry", "Result", "Sheet", "Value", "Waiver", "YawPoint",
-           "from_document", "load_fleet", "load_sheet", "sheet_files"]
+           "attachment_problems", "from_document", "load_fleet", "load_sheet", "sheet_files"]
 
 SLUG = re.compile(sections.SLUG)
-IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".svg", ".webp", ".gif")
+IMAGE_SUFFIXES = (".png", ".jpg", ".jpeg", ".webp", ".gif")  # raster only: an SVG can carry script
+# The first bytes of each raster format (its specification's signature), so a script-bearing
+# SVG or HTML file renamed .png is refused too.
+IMAGE_SIGNATURES = (b"\x89PNG\r\n\x1a\n", b"\xff\xd8\xff", b"GIF87a", b"GIF89a", b"RIFF")
 SURFACE_SUFFIXES = (".stl", ".obj", ".ply", ".csv")
 ISO_DATE = re.compile(r"^\d{4}-\d{2}-\d{2}$")  # a quoted date, as JSON and editors write it
 # A value still to be filled in: the template writes ``<e.g. 4.8 m>``, so no unfilled
@@ -338,7 +341,7 @@ class _Checker:
         for path, raw in self.items(data, ("attachments",), "attachments"):
             values = self.fields(sections.ATTACHMENT, raw, path)
             if values["file"] and self.safe_file(values["file"], path + ("file",)):
-                out.append(Attachment(**values))
+                out.append(Attachment(**values, line=self.doc.where(path + ("file",))[0]))
         return out
 
     def geometry(self, data) -> Geometry | None:
@@ -368,10 +371,17 @@ class _Checker:
         resolved) and exist; :func:`aeroreview.paths.contained_file` decides."""
         kind = "an image" if what == "attachment" else "a surface file"
         try:
-            contained_file(self.folder, file, suffixes, what, kind)
+            real = contained_file(self.folder, file, suffixes, what, kind)
         except PathProblem as problem:
             self.error(path, str(problem), problem.hint)
             return False
+        if what == "attachment":
+            with real.open("rb") as stream:
+                head = stream.read(12)
+            if not head.startswith(IMAGE_SIGNATURES) or head.startswith(b"RIFF") and head[8:12] != b"WEBP":
+                self.error(path, f"attachment '{file}' is not a PNG, JPEG, GIF or WebP image inside",
+                           "export it as a raster image; SVG and other documents are not published")
+                return False
         return True
 
 
@@ -459,6 +469,20 @@ def load_sheet(path: Path | str, display: str | None = None) -> Sheet:
     path = Path(path)
     doc = yamldoc.load(path, display or str(path))
     return from_document(doc, path.parent)
+
+
+def attachment_problems(sheets, limit: int) -> list[Problem]:
+    """Attachments larger than ``limit`` bytes (the site copies each one into every build)."""
+    problems = []
+    for sheet in sheets:
+        for attachment in sheet.attachments:
+            real = contained_file(Path(sheet.path).parent, attachment.file, IMAGE_SUFFIXES, "attachment")
+            size = real.stat().st_size
+            if size > limit:
+                problems.append(Problem(sheet.path, attachment.line, 1, f"attachment '{attachment.file}' is "
+                                        f"{size:,} bytes, over the limit of {limit:,}",
+                                        "make it smaller, or raise max_attachment_mb in the settings"))
+    return problems
 
 
 @dataclass

@@ -68,9 +68,9 @@ class Source:
 
 
 COMMON = Source("common practice in production-car aerodynamics", "common practice")
-HUCHO = Source("Hucho (ed.), Aerodynamics of Road Vehicles, 4th ed., SAE 1998; edition recalled (search confirmed only "
-               "the 1987 Butterworths edition, in a published reference list); chapter not checked, figure recalled, "
-               "not checked", "from memory")
+HUCHO = Source("Hucho (ed.), Aerodynamics of Road Vehicles, 4th ed., SAE International 1998 (edition, year and "
+               "publisher confirmed in a published reference list, J. Fluids Eng. 141 (2019) 020801); chapter not "
+               "checked, figure recalled, not checked", "from memory")
 HUCHO_SOVRAN = Source("Hucho and Sovran, 'Aerodynamics of road vehicles', Annu. Rev. Fluid Mech. 25 (1993) 485-537 "
                       "(title/authors/year/venue and first page checked on a copy): drag is mainly pressure drag, and "
                       "avoiding or controlling separation is the main objective", "published")

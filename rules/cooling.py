@@ -6,8 +6,8 @@ from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, min
 
 COOLING_SOURCE = Source("Katz, Automotive Aerodynamics, Wiley (ISBN 978-1-119-18572-7), section on cooling drag, p. 538: "
                         "passenger-car cooling drag dCd of about 0.01-0.07, most 0.03-0.05 (figure read on an online "
-                        "copy of the page; title and ISBN confirmed on a bookseller's page; year 2016 recalled)",
-                        "published")
+                        "copy of the page; title and ISBN confirmed on a bookseller's page; author and year 2016 "
+                        "recalled, so not marked published)", "from memory")
 # Share of the time a closed-able inlet stays closed at motorway speed, so its surplus costs drag (from memory).
 OPEN_SHARE = {"active": 0.3, "passive": 0.7, "none": 1.0}
 EFFECT_SOURCE = Source("effect: about 2-4 counts per 0.01 m^2 of surplus inlet while open; active shutters keep it "

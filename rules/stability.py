@@ -249,9 +249,9 @@ def yaw_front_lift(sheet, ctx):
 
 YAW_DRAG_SOURCE = Source("passenger-car drag typically rises by 5-15 % from 0 to 10 deg of yaw; recalled, not checked",
                          "from memory")
-J1252 = Source("SAE J1252, wind tunnel test procedure for trucks and buses (1981): wind-averaged drag over all wind "
-               "directions at a 7 mph mean wind (title and year recalled, not checked by search); computed by "
-               "aeroreview.calc.wind", "from memory")
+J1252 = Source("SAE J1252, Wind Tunnel Test Procedure for Trucks and Buses (title confirmed; a summary of its 2012 "
+               "revision names its wind-averaged drag derivation); the 1981 first issue and the 7 mph mean wind are "
+               "recalled, not checked; computed by aeroreview.calc.wind", "standard")
 
 
 @rule("stability.yaw-drag-rise", "Rise of drag with yaw", "warning", needs=(), region="upper",

@@ -9,7 +9,8 @@ from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_rang
 DIFFUSER_SOURCE = Source("Ruhrmann and Zhang, 'Influence of diffuser angle on a bluff body in ground effect', J. "
                          "Fluids Eng., ASME (2003), doi 10.1115/1.1537252 (title/authors/DOI and abstract checked): "
                          "5 and 10 deg diffusers stay well-behaved, 15-20 deg show separation and hysteresis; the 10 and "
-                         "12 deg limits are placed between those tested angles", "published")
+                         "12 deg limits are placed between those tested angles; the year (2003) is recalled, so the "
+                         "source is not marked published", "from memory")
 COOPER = Source("Cooper, Bertenyi, Dutil, Syms and Sovran, 'The aerodynamic performance of automotive underbody "
                 "diffusers', SAE 980030 (1998, SP-1318) (title/authors/year/venue confirmed on a copy of the cover "
                 "page): diffuser performance depends on its area ratio and length, not its angle alone; the ratio "

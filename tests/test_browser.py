@@ -12,14 +12,16 @@ Screenshots are saved in test-artifacts/.
 from __future__ import annotations
 
 import functools
+import re
 import http.server
 import threading
+from urllib.parse import quote
 from pathlib import Path
 
 import pytest
 from playwright.sync_api import sync_playwright
 
-from conftest import ROOT
+from conftest import ROOT, run_cli
 from site_helpers import build, copy_knowledge_base
 
 CHROMIUM = "/usr/bin/chromium"  # Debian's package; the README's test line installs it (never a downloaded browser)
@@ -34,6 +36,7 @@ def site(tmp_path_factory):
     sheet = kb / "vehicles/tessel/r2.yaml"
     sheet.write_text(sheet.read_text(encoding="utf-8").replace(
         "notes: |\n", "notes: |\n  Hostile test <script>alert(1)</script><img src=x onerror=alert(2)>\n"), encoding="utf-8")
+    plant_payloads(kb)
     return build(kb, kb / "out")
 
 
@@ -44,6 +47,30 @@ def served(site):
     threading.Thread(target=server.serve_forever, daemon=True).start()
     yield f"http://127.0.0.1:{server.server_address[1]}"
     server.shutdown()
+
+
+FILE_NAME_PAYLOAD = "x.png){ onload=alert(2) }(.png"  # the issue's name: it made <img onload=...> fire
+SVG_PAYLOAD = '<svg xmlns="http://www.w3.org/2000/svg"><script>alert(3)</script></svg>'
+CAPTION_PAYLOAD = 'Roof end ![p](x.png){ onload=alert(4) } <svg onload=alert(5)> `code`'
+
+
+def plant_payloads(kb: Path) -> None:
+    """Hostile files beside the demo sheet, and the payloads in an attachment's caption.
+
+    A sheet naming any of the files is refused by ``check`` (so nothing is built); the site
+    is built with the files lying in the folder, unnamed, and the caption payload shown."""
+    images = kb / "vehicles/tessel/img"
+    (images / FILE_NAME_PAYLOAD).write_bytes((images / "r1-roof-end.png").read_bytes())
+    (images / "evil.svg").write_text(SVG_PAYLOAD)
+    (images / "evil-svg.png").write_text(SVG_PAYLOAD)  # an SVG renamed .png
+    sheet = kb / "vehicles/tessel/r1.yaml"
+    text = sheet.read_text(encoding="utf-8")
+    for name in (FILE_NAME_PAYLOAD, "evil.svg", "evil-svg.png"):
+        sheet.write_text(text.replace("file: img/r1-roof-end.png", f"file: 'img/{name}'"), encoding="utf-8")
+        run = run_cli("check", sheet)
+        assert run.code == 2 and f"{sheet}:" in run.err and "attachment" in run.err, (name, run.err)
+    text = re.sub(r"(?m)^    caption: .*$", f'    caption: "{CAPTION_PAYLOAD}"', text)
+    sheet.write_text(text, encoding="utf-8")
 
 
 class _QuietHandler(http.server.SimpleHTTPRequestHandler):
@@ -167,3 +194,23 @@ def test_layout_at_1400_px(site, browser):
     page.close()
     assert len(list(site.rglob("*.html"))) > 80
     assert problems == {}, problems
+
+
+def test_file_name_and_svg_payloads_stay_inert(served, browser):
+    page = browser.new_page()
+    dialogs = []
+    page.on("dialog", lambda dialog: (dialogs.append(dialog.message), dialog.dismiss()))
+    page.goto(served + "/fleet/tessel/r1.html")
+    page.wait_for_load_state("networkidle")
+    assert "onload=alert(4)" in page.inner_text("article")  # the caption shows as typed
+    handlers = page.evaluate("""Array.from(document.querySelectorAll('*')).flatMap(e =>
+        Array.from(e.attributes).filter(a => a.name.startsWith('on')).map(a => e.tagName + ' ' + a.name))""")
+    assert handlers == [], handlers  # no live element: not one event-handler attribute on the page
+    assert page.evaluate("document.querySelectorAll('svg script, article svg').length") == 0
+    for name in ("evil.svg", "evil-svg.png", FILE_NAME_PAYLOAD):  # never published
+        response = page.request.get(f"{served}/fleet/tessel/files/r1/img/{quote(name)}")
+        assert response.status == 404, name
+    page.goto(f"{served}/fleet/tessel/files/r1/img/evil.svg")
+    page.wait_for_timeout(300)
+    assert dialogs == [], dialogs
+    page.close()

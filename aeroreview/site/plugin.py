@@ -29,7 +29,7 @@ from mkdocs.structure.files import File, InclusionLevel
 from aeroreview.problems import InputError
 from aeroreview.review import review_sheet
 from aeroreview.settings import load_settings
-from aeroreview.sheet import load_fleet
+from aeroreview.sheet import attachment_problems, load_fleet
 from aeroreview.site.figures import FigureCache
 from aeroreview.site.output import Output, OutputProblem, check_output, mark
 from aeroreview.site.pages import generate
@@ -47,6 +47,7 @@ class AeroreviewConfig(base.Config):
     cycle = c.Type(str, default="wltc-3b")
     fail_on = c.Type(str, default="failure")
     rules = c.Type(dict, default={})
+    max_attachment_mb = c.Optional(c.Type((int, float)))
 
 
 def fleet_epoch(reviews) -> int:
@@ -74,7 +75,7 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
             self.settings = load_settings(config.config_file_path)
             target = self._checked_output(config)
             fleet = load_fleet([self.settings.sheets_path])
-            problems = fleet.problems
+            problems = fleet.problems + attachment_problems(fleet.sheets, self.settings.max_attachment_bytes)
             if problems:
                 raise InputError(problems)
         except InputError as error:

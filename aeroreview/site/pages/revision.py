@@ -3,12 +3,15 @@
 from __future__ import annotations
 
 from pathlib import Path, PurePosixPath
+from urllib.parse import quote
 
 from aeroreview import catalogue
 from aeroreview.digest import RevisionFigures
+from aeroreview.paths import contained_file
 from aeroreview.review import ADDITIVITY_NOTE, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES
 from aeroreview.settings import status_rank
+from aeroreview.sheet import IMAGE_SUFFIXES
 from aeroreview.site.pages import revision_figures
 from aeroreview.site.pages.common import (CAUTION, Output, badge, esc, heading, kind_suffix, link, paragraphs,
                                           recoverable_text, revision_path, score_text)
@@ -20,7 +23,7 @@ def write(out: Output, review: Review, figures: RevisionFigures) -> None:
     lines = [heading(f"{sheet.name}, revision {sheet.revision}"), "",
              f"[{esc(sheet.name)}](index.md) · class {sheet.get('vehicle.class')} · reviewed "
              f"{sheet.reviewed or 'date not given'}{' by ' + esc(sheet.reviewer) if sheet.reviewer else ''} · "
-             f"sheet `{esc(out.sheet_name(sheet))}`", ""]
+             f"sheet <code>{esc(out.sheet_name(sheet))}</code>", ""]  # entities in a Markdown code span show as typed
     if sheet.parent:
         lines += [f"Derived from revision {esc(sheet.parent)}: "
                   f"[what changed]({sheet.parent}-to-{sheet.revision}.md).", ""]
@@ -124,7 +127,9 @@ def ranked_fixes(review: Review) -> list[str]:
 
 
 def attachments(out: Output, review: Review) -> list[str]:
-    """The attachments by zone; the plugin copies the files (``Site.copies``), unchanged."""
+    """The attachments by zone. The plugin copies the files (``Site.copies``, streamed, unchanged)
+    from the real paths :func:`~aeroreview.paths.contained_file` checks once more; the caption
+    goes through :func:`esc` and the path is percent-encoded, so no file name can add markup."""
     sheet = review.sheet
     if not sheet.attachments:
         return []
@@ -133,9 +138,10 @@ def attachments(out: Output, review: Review) -> list[str]:
     for zone, zone_title in catalogue.ALL_ZONES.items():
         for attachment in (a for a in sheet.attachments if a.zone == zone):
             relative = f"files/{sheet.revision}/{PurePosixPath(attachment.file).as_posix()}"
-            out.site.copies[f"fleet/{sheet.vehicle_id}/{relative}"] = folder / attachment.file
+            real = contained_file(folder, attachment.file, IMAGE_SUFFIXES, "attachment")
+            out.site.copies[f"fleet/{sheet.vehicle_id}/{relative}"] = real
             caption = esc(attachment.caption or attachment.file)
-            lines += [f"**{zone_title}**: {caption}", "", f"![{caption}]({relative})", ""]
+            lines += [f"**{zone_title}**: {caption}", "", f"![{caption}]({quote(relative)})", ""]
     return lines
 
 
