@@ -14,7 +14,7 @@ import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, baseline, calc_cli, report, review, schema, template
+from aeroreview import __version__, baseline, calc_cli, report, results_cli, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError, clean
@@ -28,14 +28,14 @@ EXIT_CLEAN, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 class _Parser(argparse.ArgumentParser):
     """argparse that raises instead of exiting, so every usage error takes one path.
 
-    A value that starts with a minus and a digit (``--yaw -10:0.35,0:0.30``) is a value,
-    not an option: no option of ours looks like that, and argparse's own test knows only
-    plain negative numbers.
+    A value that starts with a minus and a digit (``--yaw -10:0.35,0:0.30``), and the axis
+    ``-x`` (``--nose -x``), are values, not options: no option of ours looks like them, and
+    argparse's own test knows only plain negative numbers.
     """
 
     def __init__(self, *args, **kwargs):
         super().__init__(*args, **kwargs)
-        self._negative_number_matcher = re.compile(r"^-\.?\d")
+        self._negative_number_matcher = re.compile(r"^-(?:\.?\d|x$)")  # and the axis value -x (--nose -x)
 
     def error(self, message):
         raise UsageError(f"{self.prog}: {message}")
@@ -153,14 +153,17 @@ def _cmd_measure(args) -> int:
         print(json.dumps(measure.as_json(result), indent=2))
     else:
         print(measure.as_text(result, source), end="")
-    for note in surface.notes:
+    for note in surface.notes + [n for n in result.notes if n.startswith("warning:") and n not in surface.notes]:
         print(f"{args.surface}: {note}", file=sys.stderr)
     if args.figures:
         for path in _measure_figures(measure, result, Path(args.figures), source):
             print(f"wrote {path}", file=sys.stderr)
     if args.sheet:
         report = measure.merge_into_sheet(args.sheet, result, source, args.overwrite)
-        print(f"{args.sheet}: added {len(report['added'])}, kept {len(report['kept'])} of your values"
+        for key, differs in report["differs"].items():
+            print(f"{args.sheet}: kept your {key} ({differs}); --overwrite takes the measurement", file=sys.stderr)
+        print(f"{args.sheet}: added {len(report['added'])}, filled {len(report['filled'])} template lines, "
+              f"kept {len(report['kept'])} of your values"
               + (f" ({', '.join(report['kept'])}; --overwrite replaces them)" if report["kept"] else "")
               + (f", replaced {len(report['replaced'])} (original kept as {report['backup']})" if report["replaced"] else ""),
               file=sys.stderr)
@@ -259,8 +262,8 @@ def build_parser() -> argparse.ArgumentParser:
     measure_cmd = sub.add_parser("measure", help="measure sheet features from a surface (STL, OBJ, PLY) or a CSV profile")
     measure_cmd.add_argument("surface", metavar="SURFACE")
     measure_cmd.add_argument("--units", choices=("mm", "m"), help="units of the file (default: inferred, and said)")
-    measure_cmd.add_argument("--nose", choices=("-x", "+x"), default="-x", help="which end is the front (default -x)")
-    measure_cmd.add_argument("--up", choices=("+z", "+y"), default="+z", help="which axis points up (default +z)")
+    measure_cmd.add_argument("--nose", choices=("-x", "+x"), help="which end is the front (default: inferred, and said)")
+    measure_cmd.add_argument("--up", choices=("+z", "+y"), help="which axis points up (default: inferred, and said)")
     measure_cmd.add_argument("--ground", type=float, help="ground plane height in file units (default: lowest point)")
     measure_cmd.add_argument("--json", action="store_true", help="print JSON")
     measure_cmd.add_argument("--sheet", help="merge the measured features into this sheet (comments and your values kept)")
@@ -276,6 +279,7 @@ def build_parser() -> argparse.ArgumentParser:
     site.set_defaults(run=_cmd_site)
 
     calc_cli.add_parser(sub)
+    results_cli.add_parser(sub)
     return parser
 
 

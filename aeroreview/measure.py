@@ -19,10 +19,11 @@ from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue
+from aeroreview import catalogue, plausible, sheetfill
 from aeroreview.calc.geometry.profile import Measurement, measure_centreline, plan_taper
 from aeroreview.calc.geometry.projection import projected_area
 from aeroreview.calc.geometry.mesh import edge_check, face_areas, merge_vertices
+from aeroreview.calc.geometry.orientation import infer_nose, infer_up
 from aeroreview.calc.geometry.sections import Outline, densify, outline, slice_levels, slice_mesh
 from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.sheetedit import edit_sheet
@@ -53,6 +54,7 @@ class Surface:
     notes: list[str] = field(default_factory=list)
     source: str = ""
     closed: bool = False  # watertight and consistently wound: one side's faces alone make the silhouette
+    ground_given: bool = True  # False: the ground plane was put at the lowest point
 
 
 def _scale_for(extent: float, units: str | None) -> tuple[float, str, str]:
@@ -80,9 +82,27 @@ def _frame(points: np.ndarray, nose: str, up: str) -> np.ndarray:
     return points
 
 
-def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", up: str = "+z",
+def _orient(points: np.ndarray, nose: str | None, up: str | None) -> tuple[np.ndarray, list[str]]:
+    """Turn file points into the tool's frame; ``None`` for ``nose`` or ``up`` infers it, and says so."""
+    said = []
+    if up is None:
+        up, why = infer_up(points)
+        said.append(f"{why}; give --up to override")
+    points = _frame(points, "-x", up)
+    inferred, why, decided = infer_nose(points)
+    if nose is None:
+        nose = inferred
+        said.append(f"{why}; give --nose to {'override' if decided else 'say which'}")
+    elif decided and nose != inferred:
+        said.append(f"warning: --nose {nose} puts the higher end first, but the surface looks nose at {inferred} "
+                    f"({why.split('(', 1)[1].rstrip(')')}); the angles and radii below are likely read tail-first")
+    return (_frame(points, nose, "+z") if nose == "+x" else points), said
+
+
+def load_surface(path: str | Path, units: str | None = None, nose: str | None = "-x", up: str | None = "+z",
                  ground: float | None = None) -> Surface:
-    """Load and orient a surface; refuse what is not a usable vehicle surface."""
+    """Load and orient a surface (``None`` for ``nose`` or ``up``: inferred, and said); refuse what is
+    not a usable vehicle surface."""
     path = Path(path)
     name = str(path)
     if not path.is_file():
@@ -131,13 +151,14 @@ def load_surface(path: str | Path, units: str | None = None, nose: str = "-x", u
     extent = max(float(np.ptp(vertices[:, axis])) for axis in range(3))
     scale, unit, note = _scale_for(extent, units)
     _check_size(extent * scale, name)
-    points = _frame(merged * scale, nose, up)
+    points, said = _orient(merged * scale, nose, up)
+    notes += said
     base = points[:, 2].min() if ground is None else ground * scale
     points[:, 2] -= base
     points[:, 0] -= points[:, 0].min()
     ground_note = "ground plane at the lowest point" if ground is None else f"ground plane at z = {ground:g} {unit}"
     return Surface(points, faces, units=unit, units_note=f"{note}; {ground_note}", notes=notes,
-                   source=path.name, closed=consistent)
+                   source=path.name, closed=consistent, ground_given=ground is not None)
 
 
 _PLY_SIZES = {"char": 1, "uchar": 1, "int8": 1, "uint8": 1, "short": 2, "ushort": 2, "int16": 2, "uint16": 2,
@@ -175,7 +196,7 @@ def _ply_minimum(header: list[str]) -> int:
     return sum(count * row for count, row in elements)
 
 
-def _load_profile(path: Path, units: str | None, nose: str, ground: float | None) -> Surface:
+def _load_profile(path: Path, units: str | None, nose: str | None, ground: float | None) -> Surface:
     name = str(path)
     try:
         text = path.read_text(encoding="utf-8-sig")
@@ -209,14 +230,22 @@ def _load_profile(path: Path, units: str | None, nose: str, ground: float | None
     scale, unit, note = _scale_for(extent, units)
     _check_size(extent * scale, name)
     points = points * scale
+    kind = "centreline" if header[1] == "z" else "plan"
+    said = []
+    if nose is None and kind == "centreline":
+        nose, why, decided = infer_nose(np.column_stack([points[:, 0], np.zeros(len(points)), points[:, 1]]))
+        said.append(f"{why}; give --nose to {'override' if decided else 'say which'}")
+    elif nose is None:
+        nose = "-x"
+        said.append("nose taken as -x: a plan outline does not show which end is the front; give --nose to say which")
     if nose == "+x":
         points[:, 0] = -points[:, 0]
     points[:, 0] -= points[:, 0].min()
-    kind = "centreline" if header[1] == "z" else "plan"
     if kind == "centreline":
         points[:, 1] -= points[:, 1].min() if ground is None else ground * scale
     closed = np.vstack([points, points[:1]])
-    return Surface(None, None, profile=closed, profile_kind=kind, units=unit, units_note=note, source=path.name)
+    return Surface(None, None, profile=closed, profile_kind=kind, units=unit, units_note=note, notes=said,
+                   source=path.name, ground_given=ground is not None)
 
 
 @dataclass
@@ -265,6 +294,7 @@ def measure(surface: Surface, heights: list[float] | None = None) -> Result:
     heights = heights or [h for h in np.arange(SECTION_STEP, 0.95 * top, SECTION_STEP)]  # below the roof skin
     belt = 0.55 * top
     window = min(0.3, 0.1 * length)
+    glass_foot = _backlight_foot(result)
     levels = sorted(set([round(float(h), 4) for h in heights] + [round(belt, 4)]))
     for h, cut in zip(levels, slice_levels(v, f, 2, levels)):
         if len(cut) < 10:
@@ -273,12 +303,30 @@ def measure(surface: Surface, heights: list[float] | None = None) -> Result:
         taper = plan_taper(plan, window)
         entry = {"height_m": h, "width_m": float(plan.upper[:, 1].max() - plan.lower[:, 1].min()),
                  "taper_deg": None if taper.value is None else math.degrees(taper.value), "method": taper.method,
-                 "outline": plan}
+                 "outline": plan, "cuts_backlight": glass_foot is not None and h >= glass_foot}
         result.sections.append(entry)
         if h == round(belt, 4):
             result.measurements.append(Measurement("rear.side_taper_angle", taper.value,
                                                    f"section at belt height {h:.3f} m (0.55 x height): {taper.method}"))
+    result.notes += plausible.warnings_for(result.measurements, result.length, surface.ground_given)
     return result
+
+
+def _backlight_foot(result: Result) -> float | None:
+    """Height [m] of the lower end of the backlight on the centreline: a horizontal section above it
+    ends on the glass or the roof, so its plan angle there is no rear taper."""
+    glass = result.measured().get("rear.backlight_angle")
+    if result.centreline is None or glass is None or not glass.span:
+        return None
+    upper = result.centreline.upper
+    return float(np.interp(glass.span[1], upper[:, 0], upper[:, 1]))
+
+
+def _section_label(section: dict) -> str:
+    where = "plan outline" if section["height_m"] is None else f"z = {section['height_m']:.3f} m"
+    if section.get("cuts_backlight"):
+        return f"{where}: cuts the backlight, so not a rear taper"
+    return where + ("" if section["taper_deg"] is None else f", rear taper {section['taper_deg']:.1f} deg")
 
 
 def _measure_profile(surface: Surface) -> Result:
@@ -303,6 +351,7 @@ def _measure_profile(surface: Surface) -> Result:
         result.sections.append({"height_m": None, "width_m": result.width,
                                 "taper_deg": None if taper.value is None else math.degrees(taper.value),
                                 "method": taper.method, "outline": shape})
+    result.notes += plausible.warnings_for(result.measurements, result.length, surface.ground_given)
     return result
 
 
@@ -329,6 +378,7 @@ def as_json(result: Result) -> dict:
             "centreline": None if result.centreline is None else {"upper": line(result.centreline.upper),
                                                                   "lower": line(result.centreline.lower)},
             "horizontal": [{"height_m": s["height_m"], "width_m": s["width_m"], "taper_deg": s["taper_deg"],
+                            "cuts_backlight": bool(s.get("cuts_backlight")),
                             "method": s["method"], "upper": line(s["outline"].upper, 200),
                             "lower": line(s["outline"].lower, 200)} for s in result.sections],
         },
@@ -346,9 +396,7 @@ def as_text(result: Result, source: str) -> str:
         else:
             lines.append(f"  {m.key:<{width}}  {'not measured':>14}  {m.method}")
     for s in result.sections:
-        taper = "-" if s["taper_deg"] is None else f"{s['taper_deg']:.1f} deg"
-        where = "plan outline" if s["height_m"] is None else f"z = {s['height_m']:.3f} m"
-        lines.append(f"  section {where}: width {s['width_m']:.3f} m, rear taper {taper}")
+        lines.append(f"  section {_section_label(s)}; width {s['width_m']:.3f} m")
     return "\n".join(lines) + "\n"
 
 
@@ -357,12 +405,14 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
     """Write the measured features into a sheet, keeping comments and the user's values
     (through :func:`aeroreview.sheetedit.edit_sheet`, which keeps everything else too).
 
-    Returns {"added": [...], "kept": [...], "replaced": [...], "backup": path or None}.
-    Nothing is written when the merged sheet would not validate.
+    Template placeholders are replaced and commented template lines filled where they stand
+    (:mod:`aeroreview.sheetfill`). Returns {"added": [...], "filled": [...], "kept": [...],
+    "differs": {key: "sheet X, surface Y"} for kept values beyond tolerance, "replaced": [...],
+    "backup": path or None}. Nothing is written when the merged sheet would not validate.
     """
     from ruamel.yaml.comments import CommentedMap
 
-    report = {"added": [], "kept": [], "replaced": [], "backup": None}
+    report = {"added": [], "filled": [], "kept": [], "differs": {}, "replaced": [], "backup": None}
 
     def merge(data) -> tuple[dict, bool]:
         if not isinstance(data, dict) or not isinstance(data.get("features"), dict):
@@ -374,11 +424,15 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
             value, unit = _shown(m)
             entry = CommentedMap(value=f"{value:.4g} {unit}".strip(), source=f"measured from {source}", note=m.method)
             entry.fa.set_flow_style()
-            if key in features and not overwrite:
+            if not sheetfill.is_unfilled(features, key) and not overwrite:
                 report["kept"].append(key)
+                differs = sheetfill.disagreement(key, features[key], m.value)
+                if differs:
+                    report["differs"][key] = differs
                 continue
-            report["replaced" if key in features else "added"].append(key)
-            features[key] = entry
+            replacing = not sheetfill.is_unfilled(features, key)
+            where = sheetfill.place(features, key, entry)
+            report["replaced" if replacing else "added" if where == "appended" else "filled"].append(key)
         return report, bool(report["replaced"])
 
     edit = edit_sheet(sheet_path, merge)
@@ -388,8 +442,10 @@ def merge_into_sheet(sheet_path: str | Path, result: Result, source: str, overwr
 
 # -- figures --------------------------------------------------------------------------
 def _thin(points, keep=300) -> list[list[float]]:
+    """Every step-th point, and always the last, so a closed outline stays closed."""
     step = max(1, len(points) // keep)
-    return [[round(float(x), 4), round(float(y), 4)] for x, y in points[::step]]
+    kept = list(points[::step]) + ([points[-1]] if (len(points) - 1) % step else [])
+    return [[round(float(x), 4), round(float(y), 4)] for x, y in kept]
 
 
 def silhouette_data(result: Result, statuses: dict[str, str] | None = None, title: str = "") -> dict:
@@ -402,9 +458,10 @@ def silhouette_data(result: Result, statuses: dict[str, str] | None = None, titl
     screen_end = screen.span[1] if screen and screen.span else front_end
     statuses = statuses or {}
     parts = []
-    for zone, points in (("front", line.upper[line.upper[:, 0] <= front_end]),
+    nose_face, base = line.lower[:1], line.lower[-1:]  # close the outline: the nose face and the base
+    for zone, points in (("front", np.vstack([nose_face, line.upper[line.upper[:, 0] <= front_end]])),
                          ("windshield", line.upper[(line.upper[:, 0] >= front_end) & (line.upper[:, 0] <= screen_end)]),
-                         ("rear", line.upper[line.upper[:, 0] >= screen_end]),
+                         ("rear", np.vstack([line.upper[line.upper[:, 0] >= screen_end], base])),
                          ("underbody", line.lower)):
         if len(points) > 1:
             parts.append({"zone": zone, "status": statuses.get(zone, ""), "points": _thin(points)})
@@ -423,7 +480,5 @@ def silhouette_data(result: Result, statuses: dict[str, str] | None = None, titl
 
 
 def sections_data(result: Result) -> dict:
-    return {"sections": [{"label": ("plan outline" if s["height_m"] is None else f"z = {s['height_m']:.2f} m")
-                          + (f", taper {s['taper_deg']:.1f} deg" if s["taper_deg"] is not None else ""),
-                          "upper": _thin(s["outline"].upper, 200), "lower": _thin(s["outline"].lower, 200)}
+    return {"sections": [{"label": _section_label(s), "upper": _thin(s["outline"].upper, 200), "lower": _thin(s["outline"].lower, 200)}
                          for s in result.sections]}

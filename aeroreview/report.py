@@ -7,10 +7,16 @@ from __future__ import annotations
 
 import xml.etree.ElementTree as ET
 
-from aeroreview.problems import Problem
+from aeroreview.problems import Problem, clean
 from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES
 from aeroreview.track_record import pairs, summary
+
+
+def escape(text) -> str:
+    """Sheet text for the terminal: control characters shown escaped (a waiver reason must not
+    drive the terminal), one line."""
+    return clean(text, 2000)
 
 
 def finding_json(finding: Finding) -> dict:
@@ -125,7 +131,7 @@ def as_text(data: dict, color: bool) -> str:
     lines = []
     for sheet in data["sheets"]:
         score = "-" if sheet["score"] is None else f"{sheet['score']:.0f}"
-        lines.append(f"{paint(sheet['vehicle'] + '@' + sheet['revision'], 'bold')} {sheet['file']}  "
+        lines.append(f"{paint(escape(sheet['vehicle']) + '@' + escape(sheet['revision']), 'bold')} {escape(sheet['file'])}  "
                      f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %, confidence {_share(sheet['confidence'])})")
         lines.append(f"  {_estimate_line(sheet)}")
         for zone, title in ZONES.items():
@@ -141,17 +147,17 @@ def as_text(data: dict, color: bool) -> str:
             for f in items:
                 if f["status"] in ("pass", NOT_ASSESSED):
                     continue
-                waived = " " + paint(f"(waived: {f['waiver']['reason']})", "dim") if f["waiver"] and \
+                waived = " " + paint(f"(waived: {escape(f['waiver']['reason'])})", "dim") if f["waiver"] and \
                     f["waiver"]["status"] == "active" else ""
                 estimate = f"; {_fmt_counts((f['estimate']['cd_counts_low'], f['estimate']['cd_counts_high']))}" \
                     if f["estimate"] and f["estimate"]["cd_counts_high"] else ""
-                measured = f" ({f['measured']}, limit {f['limit']})" if f["measured"] and f["limit"] else ""
-                lines.append(f"    {paint(format(f['status'], '<9'), STYLE[f['status']])} {f['rule']}: {f['message']}"
+                measured = f" ({escape(f['measured'])}, limit {escape(f['limit'])})" if f["measured"] and f["limit"] else ""
+                lines.append(f"    {paint(format(f['status'], '<9'), STYLE[f['status']])} {f['rule']}: {escape(f['message'])}"
                              f"{measured}{estimate}{waived}")
             if unassessed:
                 lines.append("    " + paint(f"not assessed: {', '.join(unassessed)}", "dim"))
         for notice in sheet["notices"]:
-            lines.append(f"  {paint('notice', 'yellow')} {notice['message']}; {notice['hint']}")
+            lines.append(f"  {paint('notice', 'yellow')} {escape(notice['message'])}; {escape(notice['hint'])}")
         base = sheet.get("baseline", {"worse": [], "suppressed": []})
         for item in base["worse"]:
             lines.append(f"  {paint('worse than the baseline:', 'bold')} {item['rule']}: {item['why']}")
@@ -196,7 +202,7 @@ def as_junit(data: dict, fail_on: str) -> str:
     for sheet in data["sheets"]:
         suite = ET.SubElement(suites, "testsuite", name=f"{sheet['vehicle']}@{sheet['revision']}",
                               tests=str(len(sheet["findings"])), failures=str(len(sheet["failing"])),
-                              skipped=str(sum(f["status"] == NOT_ASSESSED for f in sheet["findings"])), file=sheet["file"])
+                              skipped=str(sum(f["status"] == NOT_ASSESSED for f in sheet["findings"])), file=clean(sheet["file"]))
         for f in sheet["findings"]:
             case = ET.SubElement(suite, "testcase", name=f["rule"], classname=f"{sheet['vehicle']}.{sheet['revision']}.{f['zone']}")
             text = f"{f['status']}: {f['message']}" + (f" (measured {f['measured']}, limit {f['limit']})"

@@ -55,6 +55,12 @@ def _comments(text: str) -> list[tuple[int, str]]:
     return found
 
 
+def _filled(comment: str, features) -> bool:
+    """Is ``comment`` a template's commented feature line (``# key:   # unit...``) that now holds a value?"""
+    match = re.match(r"#[ \t]*([a-z][a-z0-9_]*\.[a-z0-9_]+):", comment)
+    return bool(match and isinstance(features, dict) and match[1] in features)
+
+
 def _layout(text: str) -> tuple[int, int]:
     """The mapping indent and the sequence dash offset the user wrote, for ruamel to repeat."""
     nested = re.search(r"^[^\s#-][^\n]*:[ \t]*(?:#[^\n]*)?\n( +)[^\s#-]", text, re.M)
@@ -105,8 +111,9 @@ def edit_sheet(path: str | Path, change: Callable[[dict], tuple[object, bool]]) 
     yaml.dump(data, buffer)
     new_text = buffer.getvalue()
     kept = Counter(comment for _, comment in _comments(new_text))
+    features = data.get("features") if isinstance(data, dict) else None
     for line, comment in _comments(text):
-        if kept[comment] <= 0:
+        if kept[comment] <= 0 and not _filled(comment, features):
             raise _refuse(name, line, f"editing would lose the comment '{echo(comment)}'; nothing written",
                           "the YAML library cannot keep comments inside {...} flow mappings: move it onto a line "
                           "of its own and run the command again")

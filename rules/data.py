@@ -217,3 +217,80 @@ def measured_drag(sheet, ctx):
         return passed("a measured or computed result exists", measured=", ".join(kinds))
     return major("no CFD, tunnel or road result: the absolute figures rest on an estimate",
                  measured=", ".join(kinds) or "no results", limit="cfd, tunnel or road")
+
+
+# -- convergence of a CFD coefficient history (aeroreview results history) -------------
+DRAG_RESOLUTION = Source("a review resolves differences of about 1 drag count (0.001), the accuracy the AIAA "
+                         "Drag Prediction Workshops aimed at; a 95 % band of +-2 standard errors within +-1 count "
+                         "needs a standard error of 0.5 counts; recalled", "from memory")
+CONVERGENCE_THRESHOLDS = (
+    Threshold("std_error", "0.0005", "", "standard error of a settled drag mean (0.5 counts)", DRAG_RESOLUTION),
+    Threshold("lift_std_error", "0.001", "", "standard error of a settled lift or side-force mean (1 count)", COMMON),
+    Threshold("drift", "0.001", "", "drift of a settled mean coefficient per 1000 iterations (1 count)", COMMON),
+    Threshold("settled_rows", "200", "", "rows of the settled part needed to trust its statistics", COMMON),
+)
+
+
+def convergence_limits() -> dict[str, float]:
+    """The convergence thresholds at their defaults, by name."""
+    return {t.name: t.parse(t.default) for t in CONVERGENCE_THRESHOLDS}
+
+
+def convergence_reasons(stats: dict[str, dict], settled_rows: int, limits: dict[str, float]) -> list[str]:
+    """Why a history is not converged (empty when it is).
+
+    ``stats`` maps a coefficient (cd, cl, ...) to its ``std_error`` and ``drift_per_1000``
+    (coefficient units), ``settles`` (MSER-5 ended the transient in the first half of the
+    run; White 1997 takes a later end as a run too short to settle) and ``transient_end``.
+    """
+    reasons = []
+    if settled_rows < limits["settled_rows"]:
+        reasons.append(f"the settled part has {settled_rows} rows, fewer than {limits['settled_rows']:.0f}")
+    for key, s in stats.items():
+        if not s["settles"]:
+            reasons.append(f"{key}: the start-up transient has not ended (MSER-5 puts its end at "
+                           f"{s['transient_end']:g}, in the second half of the run)")
+        limit = limits["std_error"] if key == "cd" else limits["lift_std_error"]
+        if s["std_error"] > limit:
+            reasons.append(f"{key}: standard error {s['std_error'] / 0.001:.2f} counts, over {limit / 0.001:g}")
+        if abs(s["drift_per_1000"]) > limits["drift"]:
+            reasons.append(f"{key}: drift {s['drift_per_1000'] / 0.001:+.2f} counts per 1000 iterations, "
+                           f"over {limits['drift'] / 0.001:g}")
+    return reasons
+
+
+CORRELATION_SOURCE = Source("full-vehicle CFD and full-scale tunnel drag of one configuration usually agree within "
+                            "about 5 to 10 counts; larger gaps point at a configuration or set-up mismatch (wheels, "
+                            "ground, cooling flow, blockage correction); recalled", "from memory")
+
+
+@rule("data.cfd-tunnel-correlation", "CFD and tunnel results of one revision agree", "warning", needs=(),
+      thresholds=(Threshold("difference", "0.010", "", "Cd difference between a CFD and a full-scale tunnel result "
+                            "of one revision that calls for a correlation study (10 counts)", CORRELATION_SOURCE),),
+      sources=(CORRELATION_SOURCE,))
+def cfd_tunnel_correlation(sheet, ctx):
+    """
+    What it checks: the largest drag difference between a CFD result and a full-scale tunnel
+    result of the same revision.
+
+    Why it matters: when simulation and tunnel disagree, at least one of them does not
+    represent the car, and a fix costed on the wrong one can be worth nothing on the road.
+
+    How to fix: run a correlation study: match the configurations (wheel rotation, ground
+    simulation, cooling flow, ride height, mirrors), the reference area and the blockage
+    correction, then record both results again.
+
+    Known limits: model-scale tunnel results are left out (their Reynolds number differs);
+    the threshold is a recalled typical agreement, not a standard.
+    """
+    cfd = [r for r in sheet.results if r.kind == "cfd"]
+    tunnel = [r for r in sheet.results if r.kind == "tunnel" and r.scale == 1.0]
+    if not cfd or not tunnel:
+        return passed("no CFD and full-scale tunnel pair to compare", measured="no pair")
+    gap, a, b = max((abs(c.cd - t.cd), c, t) for c in cfd for t in tunnel)
+    measured = f"|Cd CFD - Cd tunnel| = {gap / 0.001:.1f} counts ({a.label} vs {b.label})"
+    limit = f"<= {ctx['difference'] / 0.001:g} counts"
+    if gap > ctx["difference"]:
+        return major("CFD and tunnel disagree: correlate them before costing fixes on either",
+                     measured=measured, limit=limit)
+    return passed("CFD and tunnel agree", measured=measured, limit=limit)

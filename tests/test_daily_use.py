@@ -214,3 +214,13 @@ def test_readme_usage_lines_run_as_written():
                          env={**os.environ, "PATH": path})
     assert run.returncode == 0, run.stderr
     assert "rear.backlight-angle" in run.stdout and "aeroreview" in run.stdout
+
+
+def test_a_quoted_iso_date_is_a_date(cli, write_sheet):
+    """`reviewed: '2026-10-30'` (a string to YAML, a date to JSON Schema's "format": "date") is accepted."""
+    path = write_sheet(MINIMAL.replace("features:", "reviewed: '2026-10-30'\nfeatures:"))
+    run = cli("check", path, "--format", "json")
+    assert run.code == 0, run.err
+    assert json.loads(run.out)["sheets"][0]["reviewed"] == "2026-10-30"
+    bad = write_sheet(MINIMAL.replace("features:", "reviewed: '2026-13-30'\nfeatures:"), "bad.yaml")
+    assert cli("check", bad).code == 2

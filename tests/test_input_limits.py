@@ -115,3 +115,12 @@ def test_one_bad_sheet_does_not_hide_the_others(tmp_path):
     assert "defined twice" not in run.err
     data = json.loads(run_cli("check", fleet, bad, "--format", "json").out)
     assert len(data["sheets"]) == 6 and {e["file"] for e in data["errors"]} == {str(bad)}
+
+
+def test_control_characters_in_report_text_are_escaped(cli, write_sheet):
+    """A waiver reason is printed in the text report: it must not drive the terminal either."""
+    path = write_sheet(MINIMAL + '  rear.backlight_angle: 30 deg\n'
+                       'waivers:\n  - {rule: rear.backlight-angle, reason: "ok \\e]0;pwned\\a\\e[2J"}\n')
+    run = cli("check", path)
+    assert "waived: ok \\x1b]0;pwned\\x07\\x1b[2J" in run.out  # shown, escaped
+    assert "\x1b" not in run.out + run.err and "\x07" not in run.out + run.err

@@ -26,6 +26,7 @@ ASSIGNED = {
     "aeroreview.sections": "vocabulary",
     "aeroreview.rules": "rules",
     "aeroreview.cli": "outputs", "aeroreview.calc_cli": "outputs", "aeroreview.__main__": "outputs",
+    "aeroreview.results_cli": "outputs",
     "aeroreview.site": "outputs",
 }
 ROOTS = {"aeroreview": ROOT / "aeroreview", "aeroreview.calc": ROOT / "calc", "aeroreview.rules": ROOT / "rules"}

@@ -286,3 +286,7 @@ def test_model_reynolds_worked_example():
     fast = [Result("tunnel", "quarter", 250 / 3.6, 0.25, scale=0.25)]
     assert status("data.model-reynolds", with_features(results=slow)) == "warning"
     assert status("data.model-reynolds", with_features(results=fast)) == "pass"
+
+
+# The result data-quality rules have their passing, failing and boundary cases in tests/test_results_rules.py.
+SPECIAL.update({"data.cfd-tunnel-correlation"})

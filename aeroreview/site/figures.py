@@ -229,8 +229,76 @@ def sections(data) -> bytes:
     return _svg(fig)
 
 
+def history(data) -> bytes:
+    """A coefficient history: the settled window shaded, each settled mean with its band."""
+    keys = list(data["values"])[:2]
+    fig, axes = plt.subplots(len(keys), 1, figsize=(6.4, 1.9 + 1.5 * len(keys)), sharex=True, squeeze=False)
+    for ax, key, colour in zip(axes[:, 0], keys, (OKABE_ITO["blue"], OKABE_ITO["orange"])):
+        ax.plot(data["steps"], data["values"][key], color=colour, linewidth=0.8, label=key)
+        start, end, mean, band = data["settled_from"], data["settled_to"], data["mean"][key], data["band"][key]
+        ax.axvspan(start, end, color=OKABE_ITO["grey"], alpha=0.12, label="settled part (MSER-5)")
+        ax.fill_between([start, end], mean - band, mean + band, color=OKABE_ITO["vermillion"], alpha=0.35,
+                        label=f"mean {mean:.4f} +- {band / 0.001:.2f} counts (2 SE)")
+        ax.plot([start, end], [mean, mean], color=OKABE_ITO["vermillion"], linewidth=1.0)
+        values = [v for s, v in zip(data["steps"], data["values"][key]) if s >= start]
+        spread = max(values) - min(values) if values else 0.0
+        ax.set_ylim(min(values) - 2 * spread - 0.001, max(values) + 2 * spread + 0.001)  # the settled part in view
+        ax.set_ylabel(key)
+        ax.legend(loc="upper right", fontsize=7)
+    axes[-1, 0].set_xlabel(data["step_name"])
+    axes[0, 0].set_title(f"{data['label']}: {data['verdict']}")
+    fig.tight_layout()
+    return _svg(fig)
+
+
+def _zone_bands(ax, zones) -> None:
+    for index, zone in enumerate(zones):
+        ax.axvspan(zone["start"], zone["end"], color=OKABE_ITO["sky"] if index % 2 else OKABE_ITO["yellow"],
+                   alpha=0.12)
+        ax.text(0.5 * (zone["start"] + zone["end"]), 1.01, zone["title"], transform=ax.get_xaxis_transform(),
+                ha="center", va="bottom", fontsize=7)
+
+
+def buildup(data) -> bytes:
+    """Cumulative drag and lift from the nose rearward, with the zones along x."""
+    fig, ax = _figure(6.4, 3.4)
+    _zone_bands(ax, data["zones"])
+    ax.plot(data["x"], data["cd"], color=OKABE_ITO["blue"], label=f"drag, Cd {data['cd'][-1]:.3f} at the tail")
+    ax.plot(data["x"], data["cl"], color=OKABE_ITO["orange"], linestyle="--",
+            label=f"lift, Cl {data['cl'][-1]:+.3f} at the tail")
+    ax.axhline(0, color=OKABE_ITO["black"], linewidth=0.6)
+    ax.set_xlabel("x from the nose [m]")
+    ax.set_ylabel("cumulative coefficient [-]")
+    ax.legend(loc="lower left", fontsize=7)
+    ax.set_title(f"Build-up along the body: {data['label']}", pad=14)
+    return _svg(fig)
+
+
+def buildup_diff(data) -> bytes:
+    """Two revisions' drag build-ups, and their difference in counts, with each zone's change written."""
+    fig, (top, bottom) = plt.subplots(2, 1, figsize=(6.4, 4.8), sharex=True)
+    for ax in (top, bottom):
+        _zone_bands(ax, data["after"]["zones"])
+    top.plot(data["before"]["x"], data["before"]["cd"], color=OKABE_ITO["grey"], linestyle="--",
+             label=data["before"]["label"])
+    top.plot(data["after"]["x"], data["after"]["cd"], color=OKABE_ITO["blue"], label=data["after"]["label"])
+    top.set_ylabel("cumulative Cd [-]")
+    top.legend(loc="lower left", fontsize=7)
+    bottom.plot(data["x"], data["difference_counts"], color=OKABE_ITO["vermillion"])
+    bottom.axhline(0, color=OKABE_ITO["black"], linewidth=0.6)
+    for zone, change in zip(data["after"]["zones"], data["by_zone"]):
+        bottom.text(0.5 * (zone["start"] + zone["end"]), 0.05, f"{change['change_counts']:+.1f}",
+                    transform=bottom.get_xaxis_transform(), ha="center", fontsize=8)
+    bottom.set_ylabel("difference [counts]")
+    bottom.set_xlabel("x from the nose [m]")
+    top.set_title(f"Drag build-up change: {data['total_counts']:+.1f} counts in all", pad=14)
+    fig.tight_layout()
+    return _svg(fig)
+
+
 DRAWERS = {"drag-power": drag_power, "lift": lift, "energy": energy, "ahmed": ahmed, "waterfall": waterfall,
-           "zones": zones, "yaw": yaw, "trends": trends, "silhouette": silhouette, "sections": sections}
+           "zones": zones, "yaw": yaw, "trends": trends, "silhouette": silhouette, "sections": sections,
+           "history": history, "buildup": buildup, "buildup-diff": buildup_diff}
 
 
 def _draw(kind: str, data) -> bytes:
