@@ -41,7 +41,7 @@ def rules_json(reviews: list[Review]) -> dict:
         for finding in review.findings:
             rule = finding.rule
             if rule.id not in rules:
-                rules[rule.id] = {"title": rule.title, "zone": rule.zone, "fix": rule.fix,
+                rules[rule.id] = {"title": rule.title, "zone": rule.zone, "fix": finding.fix,  # with the run's thresholds
                                   "sources": [s.as_dict() for s in rule.sources]}
     return rules
 

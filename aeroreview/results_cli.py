@@ -55,10 +55,14 @@ def _print(data: dict, text: str, as_json: bool) -> None:
 def cmd_history(args) -> int:
     from aeroreview.results import history
 
-    if args.sheet:
-        named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES)
+    name = named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES) if args.sheet else None
     result = history.settle(history.read_history(args.file, column_map(args.columns or "")))
     _print(history.as_json(result), history.as_text(result), args.json)
+    if args.sheet:
+        from aeroreview.results import record
+
+        done = record.merge_result(args.sheet, record.history_entry(result, name, record.sha256(args.file)))
+        print(f"{args.sheet}: {done['action']} results[{done['index']}] from {name}", file=sys.stderr)
     return 0
 
 
@@ -79,7 +83,37 @@ def cmd_surface(args) -> int:
         forces.notes.append("no axle lift: give --front-axle and --wheelbase (or a sheet with "
                             "dimensions.front_overhang and dimensions.wheelbase)")
     _print(surface.as_json(forces), surface.as_text(forces), args.json)
+    if sheet:
+        _record_surface(args, forces, area, sheet.get("dimensions.frontal_area"))
     return 0
+
+
+def _record_surface(args, forces, area: float, sheet_area: float | None) -> None:
+    """Write the build-up CSV beside the surface file and record the result in the sheet;
+    a CSV aeroreview did not write is never replaced, and a refused edit leaves no CSV behind."""
+    from aeroreview.results import record, surface
+
+    name = named_by_sheet(args.file, args.sheet, MESH_SUFFIXES)
+    target = Path(args.file).with_name(Path(args.file).stem + "-buildup.csv")
+    text = surface.buildup_csv(forces, Path(args.file).name)
+    existed = target.exists()
+    if target.is_symlink() or (existed and not target.read_text(encoding="utf-8", errors="replace").startswith(
+            text.split("\n")[0].split(" from ")[0])):
+        raise UsageError(f"{target}: exists and was not written by aeroreview; refusing to replace it")
+    previous = target.read_bytes() if existed else None
+    target.write_text(text, encoding="utf-8")
+    buildup = named_by_sheet(str(target), args.sheet, (".csv",))
+    try:
+        done = record.merge_result(args.sheet, record.surface_entry(
+            forces, name, record.sha256(args.file), buildup, record.sha256(target), area, sheet_area))
+    except BaseException:
+        if previous is None:
+            target.unlink()
+        else:
+            target.write_bytes(previous)
+        raise
+    print(f"{args.sheet}: {done['action']} results[{done['index']}] from {name}; build-up in {buildup}",
+          file=sys.stderr)
 
 
 def cmd_yaw(args) -> int:

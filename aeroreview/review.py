@@ -45,6 +45,7 @@ class Finding:
     verdict: Verdict
     waiver: dict | None = None  # {"status": "active"|"expired", "reason", "by", "expires"}
     consequences: dict | None = None
+    fix: str = ""  # how to fix, with the thresholds the rule ran with
 
     @property
     def waived(self) -> bool:
@@ -119,7 +120,7 @@ def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str) -> Findi
         verdict = Verdict(NOT_ASSESSED, f"not assessed: missing {', '.join(missing)}", missing=missing)
     else:
         verdict = rule.check(sheet, context)
-    return Finding(rule, _status(verdict.level, severity), severity, verdict)
+    return Finding(rule, _status(verdict.level, severity), severity, verdict, fix=rule.fix_for(context.thresholds))
 
 
 def _vehicle(sheet: Sheet) -> tuple[Vehicle, dict, list[str]]:

@@ -77,6 +77,13 @@ YAW_POINT = Section("yaw_sweep", (
     Field("cl_rear", "number", "", COEFFICIENT),
 ))
 
+RESULT_FILE = Section("files", (  # a file a result was read from (aeroreview results ... --sheet)
+    Field("file", "file", limit=300, required=True, pattern=FILE_NAME),
+    _text("sha256", 64, pattern=r"^[0-9a-f]{64}$", pattern_what="a sha256 in hex",
+          pattern_hint="64 lowercase hex digits, as `sha256sum` prints"),
+    _text("role", 20, choices=("history", "surface", "buildup", "yaw")),
+))
+
 RESULT = Section("results", (
     _text("kind", 20, required=True, choices=RESULT_KINDS),
     _text("label", 200),
@@ -89,6 +96,12 @@ RESULT = Section("results", (
     Field("yaw_sweep", "list", items=YAW_POINT),
     Field("date", "date"),
     _text("source", 500),
+    Field("cs", "number", "", COEFFICIENT),  # side force coefficient
+    Field("settled_from", "number"),  # a history's settled window, in its own first column (results history)
+    Field("settled_to", "number"),
+    Field("std_error", "number", "", (0.0, 1.0)),  # of the settled Cd mean, autocorrelation counted
+    Field("drift", "number", "", (-1.0, 1.0)),  # of Cd per 1000 iterations
+    Field("files", "list", items=RESULT_FILE),  # provenance: the files the result was read from
 ))
 
 WAIVER = Section("waivers", (
@@ -160,6 +173,12 @@ class Result:
     yaw_sweep: tuple[YawPoint, ...] = ()
     date: _dt.date | None = None  # when the result was produced
     source: str = ""  # where it comes from (report, run id)
+    cs: float | None = None
+    settled_from: float | None = None
+    settled_to: float | None = None
+    std_error: float | None = None
+    drift: float | None = None
+    files: tuple[tuple[str, str, str], ...] = ()  # (file, sha256, role)
 
 
 @dataclass(frozen=True)

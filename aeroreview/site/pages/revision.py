@@ -99,7 +99,7 @@ def findings(review: Review) -> list[str]:
         details = [f for f in items if f.status not in ("pass", NOT_ASSESSED)]
         if details:
             out += ["", "Fixes, sources and waivers:", ""]
-            out += [f"- **{f.rule.id}**: {esc(f.rule.fix)} *Sources:* {sources(f)}.{waiver(f)}" for f in details]
+            out += [f"- **{f.rule.id}**: {esc(f.fix)} *Sources:* {sources(f)}.{waiver(f)}" for f in details]
         out.append("")
     return out
 
