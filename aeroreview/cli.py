@@ -71,7 +71,7 @@ def _cmd_check(args) -> int:
     if before is not None:
         baseline.apply(data, before)
     if args.format == "json":
-        text = json.dumps(data, indent=2, default=str) + "\n"
+        text = json.dumps(data, indent=2 if args.pretty else None, separators=None if args.pretty else (",", ":"), default=str) + "\n"
     elif args.format == "junit":
         text = report.as_junit(data, fail_on)
     elif args.format == "sarif":
@@ -236,6 +236,7 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--format", choices=("text", "json", "junit", "sarif"), default="text",
                        help="report format: text, json, junit (XML) or sarif (SARIF 2.1.0, for code review)")
     check.add_argument("-o", "--output", help="write the report to this file instead of stdout")
+    check.add_argument("--pretty", action="store_true", help="with --format json: indent the JSON for reading")
     check.add_argument("--fail-on", choices=FAIL_LEVELS, help="lowest status that fails (default from the settings)")
     check.add_argument("--baseline", metavar="REPORT.json", help="fail only on findings new or worse than this JSON report "
                        "(worse: a higher status, or a grown estimate or excess beyond the limit)")

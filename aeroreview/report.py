@@ -5,24 +5,18 @@ All three are built from the same :func:`as_json` data, so they never disagree.
 
 from __future__ import annotations
 
-import io
 import xml.etree.ElementTree as ET
-
-from rich.console import Console
-from rich.markup import escape as _markup_escape
 
 from aeroreview.problems import Problem, clean
 from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES
 from aeroreview.track_record import pairs, summary
 
-STYLE = {"pass": "green", "advisory": "cyan", "warning": "yellow", "failure": "bold red", NOT_ASSESSED: "dim"}
-
 
 def escape(text) -> str:
     """Sheet text for the terminal: control characters shown escaped (a waiver reason must not
-    drive the terminal), one line, then Rich markup made literal."""
-    return _markup_escape(clean(text, 2000))
+    drive the terminal), one line."""
+    return clean(text, 2000)
 
 
 def finding_json(finding: Finding) -> dict:
@@ -36,10 +30,21 @@ def finding_json(finding: Finding) -> dict:
         "rule": rule.id, "zone": rule.zone, "title": rule.title, "status": finding.status,
         "severity": finding.severity, "message": verdict.message, "measured": verdict.measured,
         "limit": verdict.limit, "margin": verdict.margin, "estimate": estimate,
-        "consequences": finding.consequences, "fix": finding.fix if finding.status not in ("pass", NOT_ASSESSED) else "",
-        "sources": [s.as_dict() for s in finding.sources], "missing": list(verdict.missing), "waiver": finding.waiver,
+        "consequences": finding.consequences, "missing": list(verdict.missing), "waiver": finding.waiver,
         "calibration": finding.calibration,
     }
+
+
+def rules_json(reviews: list[Review]) -> dict:
+    """Every rule the findings name, once: its title, zone, fix and sources (a finding refers to it by id)."""
+    rules = {}
+    for review in reviews:
+        for finding in review.findings:
+            rule = finding.rule
+            if rule.id not in rules:
+                rules[rule.id] = {"title": rule.title, "zone": rule.zone, "fix": finding.fix,  # with the run's thresholds
+                                  "sources": [s.as_dict() for s in rule.sources]}
+    return rules
 
 
 def rounded(value):
@@ -104,7 +109,7 @@ def pairs_json(reviews: list[Review]) -> dict:
 
 
 def as_json(reviews: list[Review], problems: list[Problem], fail_on: str) -> dict:
-    return {"sheets": [review_json(r, fail_on) for r in reviews], **pairs_json(reviews),
+    return {"sheets": [review_json(r, fail_on) for r in reviews], "rules": rules_json(reviews), **pairs_json(reviews),
             "errors": [p.as_dict() for p in problems if p.level == "error"],
             "warnings": [p.as_dict() for p in problems if p.level != "error"]}
 
@@ -113,15 +118,23 @@ def _fmt_counts(counts) -> str:
     return f"{counts[0]:g}-{counts[1]:g} counts" if counts else ""
 
 
+ANSI = {"bold": "1", "green": "32", "cyan": "36", "yellow": "33", "bold red": "1;31", "dim": "2"}
+STYLE = {"pass": "green", "advisory": "cyan", "warning": "yellow", "failure": "bold red", NOT_ASSESSED: "dim"}
+
+
 def as_text(data: dict, color: bool) -> str:
-    """A terminal report: per revision, findings grouped by zone; passes summarised."""
-    buffer = io.StringIO()
-    console = Console(file=buffer, force_terminal=color, no_color=not color, soft_wrap=True, highlight=False)
+    """A terminal report: per revision, findings grouped by zone; passes summarised.
+
+    Built as one string; ``color`` adds ANSI styles (for a terminal only)."""
+    def paint(text: str, style: str) -> str:
+        return f"\x1b[{ANSI[style]}m{text}\x1b[0m" if color else text
+
+    lines = []
     for sheet in data["sheets"]:
         score = "-" if sheet["score"] is None else f"{sheet['score']:.0f}"
-        console.print(f"[bold]{escape(sheet['vehicle'])}@{escape(sheet['revision'])}[/] {escape(sheet['file'])}  "
-                      f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %, confidence {_share(sheet['confidence'])})")
-        console.print(f"  {_estimate_line(sheet)}")
+        lines.append(f"{paint(escape(sheet['vehicle']) + '@' + escape(sheet['revision']), 'bold')} {escape(sheet['file'])}  "
+                     f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %, confidence {_share(sheet['confidence'])})")
+        lines.append(f"  {_estimate_line(sheet)}")
         for zone, title in ZONES.items():
             items = [f for f in sheet["findings"] if f["zone"] == zone]
             if not items:
@@ -131,12 +144,11 @@ def as_text(data: dict, color: bool) -> str:
                 "-/100" if zone_score["score"] is None else f"{zone_score['score']:.0f}/100"
             passes = sum(f["status"] == "pass" for f in items)
             unassessed = [f["rule"] for f in items if f["status"] == NOT_ASSESSED]
-            console.print(f"  [bold]{title}[/] {shown} (coverage {zone_score['coverage'] * 100:.0f} %), "
-                          f"{passes} pass")
+            lines.append(f"  {paint(title, 'bold')} {shown} (coverage {zone_score['coverage'] * 100:.0f} %), {passes} pass")
             for f in items:
                 if f["status"] in ("pass", NOT_ASSESSED):
                     continue
-                waived = f" [dim](waived: {escape(f['waiver']['reason'])})[/]" if f["waiver"] and \
+                waived = " " + paint(f"(waived: {escape(f['waiver']['reason'])})", "dim") if f["waiver"] and \
                     f["waiver"]["status"] == "active" else ""
                 estimate = f"; {_fmt_counts((f['estimate']['cd_counts_low'], f['estimate']['cd_counts_high']))}" \
                     if f["estimate"] and f["estimate"]["cd_counts_high"] else ""
@@ -144,36 +156,36 @@ def as_text(data: dict, color: bool) -> str:
                     estimate += (f" (team data: {escape(f['calibration']['label'])})" if f["calibration"]["applied"]
                                  else f" (calibration not applied: {escape(f['calibration']['note'])})")
                 measured = f" ({escape(f['measured'])}, limit {escape(f['limit'])})" if f["measured"] and f["limit"] else ""
-                console.print(f"    [{STYLE[f['status']]}]{f['status']:<9}[/] {f['rule']}: {escape(f['message'])}"
-                              f"{measured}{estimate}{waived}")
+                lines.append(f"    {paint(format(f['status'], '<9'), STYLE[f['status']])} {f['rule']}: {escape(f['message'])}"
+                             f"{measured}{estimate}{waived}")
             if unassessed:
-                console.print(f"    [dim]not assessed: {', '.join(unassessed)}[/]")
+                lines.append("    " + paint(f"not assessed: {', '.join(unassessed)}", "dim"))
         for notice in sheet["notices"]:
-            console.print(f"  [yellow]notice[/] {escape(notice['message'])}; {escape(notice['hint'])}")
+            lines.append(f"  {paint('notice', 'yellow')} {escape(notice['message'])}; {escape(notice['hint'])}")
         base = sheet.get("baseline", {"worse": [], "suppressed": []})
         for item in base["worse"]:
-            console.print(f"  [bold]worse than the baseline:[/] {item['rule']}: {item['why']}")
+            lines.append(f"  {paint('worse than the baseline:', 'bold')} {item['rule']}: {item['why']}")
         if base["suppressed"]:
-            console.print("  [dim]not counted, no worse than the baseline: "
-                          + ", ".join(f"{s['rule']} ({s['status']})" for s in base["suppressed"]) + "[/]")
+            lines.append("  " + paint("not counted, no worse than the baseline: "
+                                      + ", ".join(f"{s['rule']} ({s['status']})" for s in base["suppressed"]), "dim"))
         if sheet["failing"]:
-            console.print(f"  [bold red]fails the gate:[/] {', '.join(sheet['failing'])}")
-        console.print()
+            lines.append(f"  {paint('fails the gate:', 'bold red')} {', '.join(sheet['failing'])}")
+        lines.append("")
     for pair in data["pairs"]:
         predicted = pair["predicted_delta_counts"]
-        console.print(f"track record {pair['vehicle']} {pair['from']} -> {pair['to']} ({pair['kind']}): predicted "
-                      f"{predicted['low']:+g} / {predicted['mid']:+g} / {predicted['high']:+g} counts, measured "
-                      f"{pair['measured_delta_counts']:+g} ({'inside' if pair['within_range'] else 'outside'} the range)")
+        lines.append(f"track record {pair['vehicle']} {pair['from']} -> {pair['to']} ({pair['kind']}): predicted "
+                     f"{predicted['low']:+g} / {predicted['mid']:+g} / {predicted['high']:+g} counts, measured "
+                     f"{pair['measured_delta_counts']:+g} ({'inside' if pair['within_range'] else 'outside'} the range)")
     record = data["track_record"]
     if record["pairs"]:
-        console.print(f"track record over {record['pairs']} pair(s): mean absolute error "
-                      f"{record['mean_abs_error_counts']:g} counts, bias {record['bias_counts']:+g} counts, "
-                      f"{record['within_range_share'] * 100:.0f} % inside the predicted range")
+        lines.append(f"track record over {record['pairs']} pair(s): mean absolute error "
+                     f"{record['mean_abs_error_counts']:g} counts, bias {record['bias_counts']:+g} counts, "
+                     f"{record['within_range_share'] * 100:.0f} % inside the predicted range")
     total_failing = sum(len(s["failing"]) for s in data["sheets"])
     note = f"; recoverable figures: {ADDITIVITY_NOTE}" if data["sheets"] else ""
-    console.print(f"{len(data['sheets'])} revision(s) reviewed, {total_failing} finding(s) fail the gate, "
-                  f"{len(data['errors'])} input error(s){note}")
-    return buffer.getvalue()
+    lines.append(f"{len(data['sheets'])} revision(s) reviewed, {total_failing} finding(s) fail the gate, "
+                 f"{len(data['errors'])} input error(s){note}")
+    return "\n".join(lines) + "\n"
 
 
 def _share(value) -> str:
@@ -201,7 +213,7 @@ def as_junit(data: dict, fail_on: str) -> str:
                                                        if f["measured"] and f["limit"] else "")
             if f["rule"] in sheet["failing"]:
                 failure = ET.SubElement(case, "failure", message=text, type=f["status"])
-                failure.text = f"fix: {f['fix']}"
+                failure.text = f"fix: {data['rules'][f['rule']]['fix']}"
             elif f["status"] == NOT_ASSESSED:
                 ET.SubElement(case, "skipped", message=text)
             else:

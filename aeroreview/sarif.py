@@ -55,12 +55,12 @@ def _descriptors() -> list[dict]:
     return rules
 
 
-def _message(finding: dict) -> str:
+def _message(finding: dict, fix: str) -> str:
     text = f"{finding['title']}: {finding['message']}"
     if finding["measured"] and finding["limit"]:
         text += f" (measured {finding['measured']}, limit {finding['limit']})"
-    if finding["fix"]:
-        text += f". Fix: {finding['fix']}"
+    if fix:
+        text += f". Fix: {fix}"
     return text
 
 
@@ -69,13 +69,14 @@ def as_sarif(data: dict) -> str:
     descriptors = _descriptors()
     index = {d["id"]: i for i, d in enumerate(descriptors)}
     results = []
+    fixes = {rule_id: rule["fix"] for rule_id, rule in data["rules"].items()}
     for sheet in data["sheets"]:
         gate = set(sheet["failing"])
         for finding in sheet["findings"]:
             if finding["status"] in ("pass", NOT_ASSESSED):
                 continue
             result = {"ruleId": finding["rule"], "ruleIndex": index[finding["rule"]],
-                      "level": LEVEL[finding["status"]], "message": {"text": _message(finding)},
+                      "level": LEVEL[finding["status"]], "message": {"text": _message(finding, fixes[finding["rule"]])},
                       "locations": [_location(sheet["file"], finding["line"])],
                       "properties": {"vehicle": sheet["vehicle"], "revision": sheet["revision"],
                                      "status": finding["status"], "failsGate": finding["rule"] in gate}}

@@ -11,12 +11,21 @@ A second case loads a whole fleet folder (2000 sheets) with ``load_fleet``, once
 sheets and once with every sheet naming a parent revision that does not exist; target: the
 broken fleet loads within 2x the valid fleet's time (fleet loading stays linear).
 
+A third case times the check command end to end (in-process: settings, fleet loading, review,
+report, writing the file) at 1000 sheets, in text and in JSON, against the load-plus-review
+it wraps (``load_fleet`` and ``review_sheet``); targets: each at most 1.3x. The interpreter's
+start-up and imports (``aeroreview --version`` in a fresh process) are printed beside it.
+
 Run: python bench/check.py [N ...]
 """
 
 from __future__ import annotations
 
+import contextlib
+import io
+import os
 import random
+import subprocess
 import sys
 import tempfile
 import time
@@ -25,8 +34,9 @@ from pathlib import Path
 import yaml
 from synthetic import DEMO, identity, templates, vary
 
+from aeroreview.cli import main as check_command
 from aeroreview.review import review_sheet
-from aeroreview.settings import Settings
+from aeroreview.settings import Settings, load_settings
 from aeroreview.sheet import load_fleet, load_sheet
 
 
@@ -72,6 +82,41 @@ def fleet_case(count: int = 2000) -> None:
     print(f"missing parents / valid: {times['missing parents'] / times['valid']:.2f} (target at most 2)")
 
 
+def best_of_three(work) -> float:
+    times = []
+    for _ in range(3):
+        start = time.perf_counter()
+        work()
+        times.append(time.perf_counter() - start)
+    return min(times)
+
+
+def command_case(count: int = 1000) -> None:
+    """The check command (text, JSON) against the load-plus-review it wraps, interleaved."""
+    settings = load_settings()
+    with tempfile.TemporaryDirectory() as tmp:
+        make_sheets(Path(tmp), count)
+        out = Path(tmp) / "report"
+
+        def review_only():
+            [review_sheet(sheet, settings) for sheet in load_fleet([tmp]).sheets]
+
+        def command(*extra):
+            with contextlib.redirect_stderr(io.StringIO()):
+                check_command(["check", tmp, "--output", str(out), *extra])
+
+        review_s = best_of_three(review_only)
+        text_s = best_of_three(command)
+        json_s = best_of_three(lambda: command("--format", "json"))
+        review_s = min(review_s, best_of_three(review_only))
+    start = time.perf_counter()
+    subprocess.run([sys.executable, "-m", "aeroreview", "--version"], check=True, capture_output=True)
+    startup = time.perf_counter() - start
+    print(f"check command on {count} sheets: load+review {review_s:.2f} s, text {text_s:.2f} s "
+          f"({text_s / review_s:.2f}x), JSON {json_s:.2f} s ({json_s / review_s:.2f}x) (targets at most 1.3x); "
+          f"start-up and imports {startup:.2f} s")
+
+
 def main(sizes: list[int]) -> None:
     settings = Settings()
     review_sheet(load_sheet(sorted(DEMO.rglob("*.yaml"))[0]), settings)  # warm caches (pint, cycle data)
@@ -85,7 +130,9 @@ def main(sizes: list[int]) -> None:
         print(f"{n:>6} {parse_s:>9.3f} {n / parse_s:>9.0f} {review_s:>9.3f} {n / review_s:>9.0f} "
               f"{review_s / parse_s:>6.2f}")
     fleet_case()
+    command_case()
 
 
 if __name__ == "__main__":
+    os.chdir(Path(__file__).resolve().parents[1])  # the repository's mkdocs.yml holds the settings
     main([int(a) for a in sys.argv[1:]] or [100, 1000, 5000])

@@ -56,4 +56,5 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
     rules.write(out, grouped)
     calibrations.write(out)
     features.write(out)
+    out.draw_figures()
     return out.site

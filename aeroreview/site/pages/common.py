@@ -97,15 +97,23 @@ class Output:
     settings: Settings
     cache: FigureCache
     site: Site = field(default_factory=Site)
+    figures: dict[str, tuple[str, object]] = field(default_factory=dict)  # name -> (kind, data)
 
     def page(self, path: str, text: str) -> None:
         self.site.files[path] = text
 
     def figure(self, kind: str, data, alt: str, depth: int) -> str:
-        """Draw (or reuse) a figure and return its Markdown image from a page ``depth`` folders down."""
-        name, content = self.cache.svg(kind, data)
-        self.site.files[f"figures/{name}"] = content
+        """A figure's Markdown image from a page ``depth`` folders down; drawn later, all at once
+        (:meth:`draw_figures`)."""
+        name = self.cache.name(kind, data)
+        self.figures[name] = (kind, data)
         return f'![{esc(alt)}]({"../" * depth}figures/{name})'
+
+    def draw_figures(self) -> None:
+        """Draw (or reuse) every figure the pages named, in parallel, and drop the unused ones from the cache."""
+        for name, content in self.cache.draw_all(self.figures).items():
+            self.site.files[f"figures/{name}"] = content
+        self.cache.evict(self.figures)
 
     def sheet_name(self, sheet) -> str:
         """The sheet's path relative to the knowledge base (never the reviewer's absolute path)."""
