@@ -32,6 +32,8 @@ def finding_json(finding: Finding) -> dict:
         "limit": verdict.limit, "margin": verdict.margin, "estimate": estimate,
         "consequences": finding.consequences, "missing": list(verdict.missing), "waiver": finding.waiver,
         "calibration": finding.calibration,
+        # Sources beyond the rule's own (listed once under "rules"): the team's data when a calibration re-costed it.
+        "added_sources": [s.as_dict() for s in finding.sources if s not in rule.sources],
     }
 
 

@@ -21,7 +21,6 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
-import pandas as pd
 
 from aeroreview import catalogue
 from aeroreview.problems import InputError, Problem, UsageError
@@ -110,6 +109,7 @@ class _Table:
             raise InputError([Problem(file, 1, 1, "the study has no header and no rows",
                                       "write a header line of column names, then one line per variant")])
         self.sep = "," if "," in self.lines[0] else r"\s+"
+        import pandas as pd  # only when a study is read: `check` on sheets alone stays light
         try:
             frame = pd.read_csv(io.StringIO("\n".join(self.lines)), sep=self.sep, dtype=str, skipinitialspace=True,
                                 engine="python" if self.sep != "," else "c")
@@ -132,6 +132,7 @@ class _Table:
 
 def _numeric(table: _Table, column: str, problems: list[Problem]) -> np.ndarray:
     """The column as floats (NaN where empty); non-numeric and infinite cells are problems."""
+    import pandas as pd  # loaded already by the table that holds the column
     raw = table.frame[column]
     values = pd.to_numeric(raw, errors="coerce").to_numpy(dtype=float)
     bad = [i for i in range(len(raw)) if (pd.notna(raw.iloc[i]) and np.isnan(values[i])) or np.isinf(values[i])]

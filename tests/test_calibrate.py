@@ -297,8 +297,8 @@ def test_demo_calibration_recosts_the_calibrated_findings_as_team_data(cli, tmp_
     for rule in changed:
         finding = calibrated[rule]
         assert finding["status"] == plain[rule]["status"]
-        assert "team data" in [s["kind"] for s in finding["sources"]]
-        assert "team data" not in [s["kind"] for s in plain[rule]["sources"]]
+        assert "team data" in [s["kind"] for s in finding["added_sources"]]
+        assert plain[rule]["added_sources"] == []
         assert finding["calibration"]["library_counts"] == [plain[rule]["estimate"]["cd_counts_low"],
                                                             plain[rule]["estimate"]["cd_counts_high"]]
     # The diffuser fix takes 15 deg to the 10 deg edge; the study's slope and interval cost it.
