@@ -41,13 +41,16 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
     fleet.write(out, grouped)
     for vehicle_id, revisions in grouped.items():
         vehicle.write(out, vehicle_id, revisions)
+        drawn = {}
         for review in revisions:
-            revision.write(out, review, digest.revision_figures(review, settings, geometry_cache))
+            drawn[review.sheet.revision] = digest.revision_figures(review, settings, geometry_cache)
+            revision.write(out, review, drawn[review.sheet.revision])
         known = {r.sheet.revision: r for r in revisions}
         for review in revisions:
             if review.sheet.parent in known:
                 before = known[review.sheet.parent]
-                diff.write(out, before, review, digest.changes(before, review))
+                buildups = (drawn[before.sheet.revision].buildup, drawn[review.sheet.revision].buildup)
+                diff.write(out, before, review, digest.changes(before, review, buildups))
     rules.write(out, grouped)
     features.write(out)
     return out.site
