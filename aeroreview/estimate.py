@@ -38,7 +38,8 @@ FLOOR_SOURCE = Source("lowest production Cd of each class: the low end of the cl
                       "checked with a web search", "common practice")
 RAISE_SOURCE = Source("what a fixed tyre width, glass mirrors or ride height cost against the class's best; "
                       "recalled from published production-car comparisons, not checked", MEMORY)
-LIFT_STAKE = 0.10  # smallest lift coefficient at stake per axle; road cars lie near -0.05..0.15 (from memory, Hucho ch. 5)
+LIFT_STAKE = 0.20  # smallest lift coefficient at stake per axle: the span of road cars' axle lift, about
+# -0.05 to +0.15, plus margin (from memory, Hucho 1998 ch. 5, not checked)
 
 
 @dataclass(frozen=True)
@@ -65,17 +66,22 @@ FLOORS = {vehicle_class: low for vehicle_class, (low, _) in CLASS_CD.items()}
 
 @dataclass(frozen=True)
 class Raise:
-    """A floor raise for a feature the review cannot change: ``per`` counts per unit above ``above``."""
+    """A floor raise for a feature the review cannot change: ``per`` counts per unit above ``above``.
+
+    It does not apply when the rule ``unless`` has an unresolved finding: that rule offers
+    the change as a fix, and its saving is claimed in its region instead.
+    """
 
     feature: str
     above: float  # SI
     per: float  # counts per SI unit above
     why: str
+    unless: str = ""
 
 
 # Tyre width above 225 mm: 1.5 counts per 10 mm; ground clearance above 140 mm (cars) or 190 mm
 # (tall classes): 1 count per 10 mm; glass mirrors: 5 counts over camera pods. All RAISE_SOURCE.
-RAISES = (Raise("wheels.tyre_width", 0.225, 150.0, "tyres wider than 225 mm"),
+RAISES = (Raise("wheels.tyre_width", 0.225, 150.0, "tyres wider than 225 mm", unless="wheels.tyre-width"),
           Raise("dimensions.ground_clearance", 0.140, 100.0, "ground clearance above 140 mm"))
 TALL_CLEARANCE = Raise("dimensions.ground_clearance", 0.190, 100.0, "ground clearance above 190 mm")
 MIRROR_RAISE = 5.0  # counts for conventional glass mirrors (RAISE_SOURCE)
@@ -141,15 +147,18 @@ class Frame:
         return max(0.0, (self.cd - self.floor_cd) * 1000)
 
 
-def frame_for(sheet, cd: float, model: Model = DEFAULT_MODEL, lift: tuple | None = None) -> Frame:
-    """The frame of a revision with drag coefficient ``cd`` (and measured axle lift, if any)."""
+def frame_for(sheet, cd: float, model: Model = DEFAULT_MODEL, lift: tuple | None = None, proposed=()) -> Frame:
+    """The frame of a revision with drag coefficient ``cd`` (and measured axle lift, if any).
+
+    ``proposed``: ids of the rules whose unresolved findings offer fixes (see :class:`Raise`).
+    """
     vehicle_class = sheet.get("vehicle.class")
     floor = model.floors.get(vehicle_class, min(model.floors.values()))
     raises = RAISES if vehicle_class not in TALL_CLASSES else (RAISES[0], TALL_CLEARANCE)
     raised_for, counts = [], 0.0
     for item in raises:
         value = sheet.get(item.feature)
-        if value is not None and value > item.above:
+        if value is not None and value > item.above and item.unless not in proposed:
             counts += (value - item.above) * item.per
             raised_for.append(item.why)
     if sheet.get("sides.mirror_kind") == "conventional":

@@ -36,7 +36,7 @@ def finding_json(finding: Finding) -> dict:
         "rule": rule.id, "zone": rule.zone, "title": rule.title, "status": finding.status,
         "severity": finding.severity, "message": verdict.message, "measured": verdict.measured,
         "limit": verdict.limit, "margin": verdict.margin, "estimate": estimate,
-        "consequences": finding.consequences, "fix": rule.fix if finding.status not in ("pass", NOT_ASSESSED) else "",
+        "consequences": finding.consequences, "fix": finding.fix if finding.status not in ("pass", NOT_ASSESSED) else "",
         "sources": [s.as_dict() for s in rule.sources], "missing": list(verdict.missing), "waiver": finding.waiver,
     }
 

@@ -45,6 +45,7 @@ class Finding:
     verdict: Verdict
     waiver: dict | None = None  # {"status": "active"|"expired", "reason", "by", "expires"}
     consequences: dict | None = None
+    fix: str = ""  # how to fix, with the thresholds the rule ran with
 
     @property
     def waived(self) -> bool:
@@ -119,7 +120,7 @@ def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str) -> Findi
         verdict = Verdict(NOT_ASSESSED, f"not assessed: missing {', '.join(missing)}", missing=missing)
     else:
         verdict = rule.check(sheet, context)
-    return Finding(rule, _status(verdict.level, severity), severity, verdict)
+    return Finding(rule, _status(verdict.level, severity), severity, verdict, fix=rule.fix_for(context.thresholds))
 
 
 def _vehicle(sheet: Sheet) -> tuple[Vehicle, dict, list[str]]:
@@ -211,8 +212,9 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
             finding.consequences = _consequences(finding.counts, per_count, power_per_count)
 
     lift = numbers["lift_reference"]
-    frame = frame_for(sheet, numbers["cd"], settings.estimates, lift and (lift["cl_front"], lift["cl_rear"]))
     ranked = _ranked(findings.values())
+    frame = frame_for(sheet, numbers["cd"], settings.estimates, lift and (lift["cl_front"], lift["cl_rear"]),
+                      {f.rule.id for f in ranked})
     claims = [c for c in map(claim_of, ranked + [f for f in findings.values() if f not in ranked]) if c]
     zones = {zone: _zone_score(zone, findings.values(), claims, frame) for zone in ZONES}
     scored = [f for f in findings.values() if f.rule.zone not in UNSCORED_ZONES]

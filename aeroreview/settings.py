@@ -30,7 +30,7 @@ from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
 from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError
 from aeroreview.rules import RULES_HINT, SEVERITIES, STATUSES, Context, Rule, all_rules
-from aeroreview.units import UnitProblem, to_si
+from aeroreview.units import UnitProblem, from_si, to_si
 
 REFERENCE_SPEED = 130 / 3.6  # m/s: the motorway speed reviewers quote drag and power at (common practice)
 FAIL_LEVELS = ("advisory", "warning", "failure", "never")
@@ -221,6 +221,12 @@ def _overrides(data, error) -> dict[str, RuleOverride]:
                 thresholds[name] = known[name].parse(value)
             except UnitProblem as problem:
                 error(where + ("thresholds", name), f"{rule_id} threshold '{name}': {problem}", problem.hint)
+                continue
+            low, high = known[name].allowed_range
+            if not low <= from_si(thresholds[name], known[name].unit) <= high:
+                del thresholds[name]
+                error(where + ("thresholds", name), f"{rule_id} threshold '{name}' = {value} is outside its allowed "
+                      f"range {low:g} to {high:g} {known[name].unit}".rstrip(), "choose a value inside that range")
         out[rule_id] = RuleOverride(severity, disabled, thresholds)
     return out
 

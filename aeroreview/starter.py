@@ -57,6 +57,7 @@ plugins:
 nav:
   - Home: index.md
   - Fleet: fleet/index.md
+  - Track record: fleet/track-record.md
   - Rules: rules/index.md
   - Feature reference: features.md
   - Methods:
@@ -66,6 +67,7 @@ nav:
       - Road load and WLTC: methods/roadload.md
       - Wind-averaged drag (SAE J1252): methods/wind-averaged.md
       - The Ahmed body: methods/ahmed.md
+      - Estimates, score and track record: methods/estimates.md
   - Glossary: glossary.md
   - Cautions: cautions.md
 """

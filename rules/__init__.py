@@ -33,7 +33,7 @@ from dataclasses import dataclass
 from typing import Callable
 
 from aeroreview.catalogue import REVIEW_ZONES
-from aeroreview.units import to_si
+from aeroreview.units import from_si, to_si
 
 STATUSES = ("pass", "advisory", "warning", "failure")  # in rising order of concern
 NOT_ASSESSED = "not assessed"
@@ -78,16 +78,32 @@ HUCHO_SOVRAN = Source("Hucho and Sovran, 'Aerodynamics of road vehicles', Annu. 
 
 @dataclass(frozen=True)
 class Threshold:
-    """A named, unit-bearing limit that a team may override in its settings."""
+    """A named, unit-bearing limit that a team may override in its settings, within ``allowed``."""
 
     name: str
     default: str  # with its unit, e.g. "26 deg"; "" unit means a plain number
     unit: str
     description: str
     source: Source
+    allowed: tuple[float, float] | None = None  # in ``unit``; None: the unit's range (UNIT_RANGES)
 
     def parse(self, value) -> float:
         return to_si(value, self.unit)
+
+    @property
+    def allowed_range(self) -> tuple[float, float]:
+        """Where an override may lie [unit]: declared, else the unit's range, else 0 to 10 x the default."""
+        if self.allowed:
+            return self.allowed
+        if self.unit in UNIT_RANGES:
+            return UNIT_RANGES[self.unit]
+        default = float(self.default.split()[0])
+        return (min(0.0, 10 * default), max(0.0, 10 * default)) if default else (-1.0, 1.0)
+
+
+# Ranges a threshold override may take, by unit (our convention): angles of a body surface,
+# shares, body dimensions, and road speeds (as results speeds, see aeroreview.sections).
+UNIT_RANGES = {"deg": (0.0, 90.0), "%": (0.0, 100.0), "mm": (0.0, 2000.0), "km/h": (1.0, 600.0)}
 
 
 @dataclass(frozen=True)
@@ -175,12 +191,31 @@ class Rule:
 
     @property
     def doc(self) -> dict[str, str]:
-        """The docstring's four sections, by heading."""
-        return parse_doc(self.check.__doc__ or "")
+        """The docstring's sections, by heading, with the default thresholds in place of ``{name}``."""
+        return {heading: self.with_thresholds(body) for heading, body in parse_doc(self.check.__doc__ or "").items()}
 
     @property
     def fix(self) -> str:
         return self.doc.get("How to fix", "")
+
+    @property
+    def examples(self) -> list[tuple[str, str]]:
+        """The docstring's examples: (status, YAML fragment changing the demo's clean revision)."""
+        return parse_examples(self.check.__doc__ or "")
+
+    def fix_for(self, thresholds: dict[str, float]) -> str:
+        """How to fix, with the team's thresholds (SI, as in a rule's context) in place of ``{name}``."""
+        return self.with_thresholds(parse_doc(self.check.__doc__ or "").get("How to fix", ""), thresholds)
+
+    def with_thresholds(self, text: str, thresholds: dict[str, float] | None = None) -> str:
+        """``text`` with each ``{name}`` of one of this rule's thresholds shown in its unit."""
+        values = {**self.defaults(), **(thresholds or {})}
+        known = {t.name: t for t in self.thresholds}
+
+        def shown(match) -> str:
+            item = known.get(match[1])
+            return f"{from_si(values[item.name], item.unit):g} {item.unit}".rstrip() if item else match[0]
+        return _THRESHOLD_NAME.sub(shown, text)
 
     def threshold(self, name: str) -> Threshold:
         for item in self.thresholds:
@@ -204,11 +239,27 @@ class Rule:
 
 
 _SECTION = re.compile(r"^(%s):\s*" % "|".join(DOC_SECTIONS), re.M)
+# After the sections, "Examples (...):" lists YAML fragments with the status each must give.
+_EXAMPLES = re.compile(r"^Examples\b[^\n]*:\s*$", re.M)
+_EXAMPLE = re.compile(r"^\s*(fails \((advisory|warning|failure)\)|passes):\s*", re.M)
+
+
+_THRESHOLD_NAME = re.compile(r"\{([a-z_]+)\}")
+
+
+def parse_examples(text: str) -> list[tuple[str, str]]:
+    """(status it must give, YAML fragment) of each line of a rule docstring's Examples block."""
+    parts = _EXAMPLES.split(inspect.cleandoc(text), 1)
+    if len(parts) < 2:
+        return []
+    found = _EXAMPLE.split(parts[1])
+    return [("pass" if label == "passes" else status, " ".join(fragment.split()))
+            for label, status, fragment in zip(found[1::3], found[2::3], found[3::3])]
 
 
 def parse_doc(text: str) -> dict[str, str]:
     """Split a rule docstring into its sections (``What it checks: ...`` and so on)."""
-    text = inspect.cleandoc(text)
+    text = _EXAMPLES.split(inspect.cleandoc(text), 1)[0]
     parts = _SECTION.split(text)
     sections = {}
     for heading, body in zip(parts[1::2], parts[2::2]):

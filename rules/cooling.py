@@ -40,6 +40,10 @@ def inlet_area(sheet, ctx):
     cost is scaled by the share of time the inlet is open.
 
     Known limits: the requirement comes from the sheet; the rule cannot check it.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (failure): {features: {cooling.inlet_area: 0.03 m^2}}
+        passes: {features: {cooling.inlet_area: 0.05 m^2}}
     """
     inlet, required = sheet.get("cooling.inlet_area"), sheet.get("cooling.required_inlet_area")
     if required <= 0:
@@ -90,6 +94,10 @@ def shutters(sheet, ctx):
     Known limits: the gain on a drive cycle depends on how often the shutters are closed;
     an electric vehicle needs far less cooling air than a combustion car, so its inlets,
     and what shutters recover, are smaller.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {cooling.shutters: none}}
+        passes: {features: {cooling.shutters: active}}
     """
     kind = sheet.get("cooling.shutters")
     scale = 0.6 if sheet.get("powertrain.kind") == "electric" else 1.0
@@ -116,6 +124,10 @@ def sealing(sheet, ctx):
     How to fix: close the gaps around the heat exchangers with foam seals or ducts.
 
     Known limits: service access sometimes forces small gaps.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {cooling.ducts_sealed: false}}
+        passes: {features: {cooling.ducts_sealed: true}}
     """
     if sheet.get("cooling.ducts_sealed"):
         return passed("the cooling ducts are sealed", measured="sealed")
@@ -151,6 +163,10 @@ def inlet_share(sheet, ctx):
 
     Known limits: performance cars, towing and hot-market variants need more; the sheet's
     own requirement, where given, is judged by the inlet-area rule.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {cooling.inlet_area: 0.08 m^2}}
+        passes: {features: {cooling.inlet_area: 0.05 m^2}}
     """
     kind = sheet.get("powertrain.kind")
     share, limit_share = sheet.get("cooling.inlet_area") / sheet.get("dimensions.frontal_area"), ctx[kind]
@@ -179,6 +195,10 @@ def brake_ducts(sheet, ctx):
 
     Known limits: small, light vehicles with large discs may not need ducts; the brake
     team's test decides.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {cooling.brake_ducts: false}}
+        passes: {features: {cooling.brake_ducts: true}}
     """
     openness, ducts = sheet.get("wheels.rim_openness"), sheet.get("cooling.brake_ducts")
     measured = f"rims {openness * 100:.0f} % open, brake ducts {'fitted' if ducts else 'none'}"
@@ -206,6 +226,10 @@ def outlet(sheet, ctx):
     there; shape hood outlets to leave tangentially.
 
     Known limits: judges the outlet location only, not its area or shape.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {wheels.wheelhouse_vented: false}}
+        passes: {features: {wheels.wheelhouse_vented: true}}
     """
     where = sheet.get("cooling.outlet")
     if where == "wheelhouse" and sheet.get("wheels.wheelhouse_vented") is not True:

@@ -53,6 +53,10 @@ def frontal_area(sheet, ctx):
     wheels included), and check width and height are without mirrors and at curb ride height.
 
     Known limits: unusual bodies (open sports cars, pickups with racks) may legitimately fall outside.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {dimensions.frontal_area: 1.9 m^2}}
+        passes: {features: {dimensions.frontal_area: 2.24 m^2}}
     """
     ratio = sheet.get("dimensions.frontal_area") / (sheet.get("dimensions.width") * sheet.get("dimensions.height"))
     measured = f"A / (W H) = {ratio:.3f}"
@@ -77,6 +81,10 @@ def cd_plausible(sheet, ctx):
     flow) and scale; record them in the result's label.
 
     Known limits: record-breaking or unusual bodies legitimately fall outside.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: x, speed: 140 km/h, cd: 0.45}]}
+        passes: {results: [{kind: cfd, label: x, speed: 140 km/h, cd: 0.30}]}
     """
     found = measured_cd(sheet)
     if found is None:
@@ -107,6 +115,10 @@ def model_reynolds(sheet, ctx):
     results at full scale or in CFD at full-scale Reynolds number.
 
     Known limits: sharp-edged bodies are less sensitive; the threshold is for rounded shapes.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: tunnel, label: quarter, speed: 160 km/h, cd: 0.25, scale: 0.25}]}
+        passes: {results: [{kind: tunnel, label: quarter, speed: 250 km/h, cd: 0.25, scale: 0.25}]}
     """
     scaled = [r for r in sheet.results if r.scale < 1.0]
     if not scaled:
@@ -141,6 +153,12 @@ def yaw_asymmetry(sheet, ctx):
     record asymmetric features in the result's label.
 
     Known limits: real asymmetric underbodies give small genuine differences.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04,
+            yaw_sweep: [{yaw: 0 deg, cd: 0.25}, {yaw: 10 deg, cd: 0.26}, {yaw: -10 deg, cd: 0.267}]}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04, yaw_sweep:
+            [{yaw: 0 deg, cd: 0.25}, {yaw: 10 deg, cd: 0.26}, {yaw: -10 deg, cd: 0.262}]}]}
     """
     pairs = []
     for result in sheet.results:
@@ -190,6 +208,10 @@ def contradicting_features(sheet, ctx):
     How to fix: correct the wrong value; the message names the features involved.
 
     Known limits: only the contradictions listed in the rule's code are detected.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {powertrain.fuel: petrol}}
+        passes: {}
     """
     found = contradictions(sheet)
     if found:
@@ -211,6 +233,10 @@ def measured_drag(sheet, ctx):
     scale and configuration.
 
     Known limits: the rule does not judge the quality of the result.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {results: [{kind: estimate, label: x, cd: 0.25}]}
+        passes: {results: [{kind: cfd, label: x, speed: 140 km/h, cd: 0.25}]}
     """
     kinds = sorted({r.kind for r in sheet.results})
     if any(k != "estimate" for k in kinds):
@@ -282,6 +308,10 @@ def cfd_tunnel_correlation(sheet, ctx):
 
     Known limits: model-scale tunnel results are left out (their Reynolds number differs);
     the threshold is a recalled typical agreement, not a standard.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: rans, cd: 0.232}, {kind: tunnel, label: full scale, cd: 0.250}]}
+        passes: {results: [{kind: cfd, label: rans, cd: 0.232}, {kind: tunnel, label: full scale, cd: 0.236}]}
     """
     cfd = [r for r in sheet.results if r.kind == "cfd"]
     tunnel = [r for r in sheet.results if r.kind == "tunnel" and r.scale == 1.0]

@@ -66,6 +66,10 @@ def upper_edge_radius(sheet, ctx):
     Known limits: a single radius describes the edge; real edges vary along their length.
     The threshold comes from box-like bodies at zero yaw; applying it to a car's front face
     height is an engineering transfer, not a published result.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {front.upper_edge_radius: 20 mm}}
+        passes: {features: {front.upper_edge_radius: 85 mm}}
     """
     return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge", (10, 40), (2, 10),
                       face=front_face_height(sheet))
@@ -90,6 +94,10 @@ def corner_radius(sheet, ctx):
 
     Known limits: evaluated at zero yaw from one plan-view radius at bumper height, always
     against sqrt(A) (the plan-view corner turns the flow around the whole front).
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {front.corner_radius: 40 mm}}
+        passes: {features: {front.corner_radius: 190 mm}}
     """
     return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner", (5, 25), (2, 8))
 
@@ -113,6 +121,10 @@ def air_dam(sheet, ctx):
 
     Known limits: an air dam that is too deep adds its own frontal area; this rule only
     checks that the dam is effective at all.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {front.air_dam_clearance: 150 mm}}
+        passes: {features: {front.air_dam_clearance: 105 mm}}
     """
     depth = sheet.get("dimensions.ground_clearance") - sheet.get("front.air_dam_clearance")
     measured = f"dam edge {depth * 1000:+.0f} mm below the underbody"
@@ -140,6 +152,10 @@ def air_curtains(sheet, ctx):
 
     Known limits: the gain depends on the wheel design and the outlet position; closed rims
     leave less to gain.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {front.air_curtains: false}}
+        passes: {features: {front.air_curtains: true}}
     """
     if sheet.get("front.air_curtains"):
         return passed("air curtains are fitted", measured="fitted")
@@ -173,6 +189,10 @@ def hood_angle(sheet, ctx):
 
     Known limits: the hood's curvature and its junction with the windshield matter too;
     vans and pickups are excluded because their packages fix the hood.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {front.hood_angle: 3 deg}}
+        passes: {features: {front.hood_angle: 10 deg}}
     """
     degrees = math.degrees(sheet.get("front.hood_angle"))
     flat, steep = math.degrees(ctx["flat"]), math.degrees(ctx["steep"])
@@ -207,6 +227,10 @@ def stagnation_height(sheet, ctx):
 
     Known limits: for low cars only; the underbody shielding by the air dam changes how much
     the split matters.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {front.stagnation_height: 600 mm}}
+        passes: {features: {front.stagnation_height: 450 mm}}
     """
     share = sheet.get("front.stagnation_height") / sheet.get("dimensions.height")
     measured = f"{share * 100:.0f} % of the height ({sheet.get('front.stagnation_height') * 1000:.0f} mm)"
@@ -236,6 +260,10 @@ def splitter(sheet, ctx):
 
     Known limits: the right length depends on the front-lift balance; the rule only flags
     long overhangs.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {front.splitter_length: 100 mm}}
+        passes: {features: {front.splitter_length: 20 mm}}
     """
     length = sheet.get("front.splitter_length")
     measured, limit = f"{length * 1000:.0f} mm", f"<= {ctx['maximum'] * 1000:.0f} mm"

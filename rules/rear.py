@@ -62,9 +62,10 @@ def backlight_angle(sheet, ctx):
     unstable, speed-dependent behaviour. A large roof-to-backlight radius keeps the flow
     attached and weakens the switch.
 
-    How to fix: move the backlight angle out of the 26-34 deg region (below about 21 deg
-    for an attached fastback flow, or above 34 deg for a clean notchback or squareback
-    separation), or enlarge the roof-to-backlight radius (r / sqrt(A) of 0.15 or more) and
+    How to fix: move the backlight angle out of the critical region from {critical_low} to
+    {critical_high} (below about {rising_low} for an attached fastback flow, or above
+    {critical_high} for a clean notchback or squareback separation), or enlarge the
+    roof-to-backlight radius (r / sqrt(A) of {generous_radius} or more) and
     add a defined separation edge at the end of the backlight or a decklid kick-up.
 
     Known limits: the Ahmed body is a simple bluff body; a production car's C-pillar shape,
@@ -72,6 +73,10 @@ def backlight_angle(sheet, ctx):
     scales the Ahmed drag step, widened by the curve's uncertainty (+-0.03 on the steep
     28-30 deg segment), and is an order of magnitude, not a prediction. Backlights steeper
     than 40 deg are square-backs: the roof-taper and base rules judge them.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (failure): {features: {rear.backlight_angle: 29 deg, rear.roof_backlight_radius: 50 mm}}
+        passes: {features: {rear.backlight_angle: 22 deg, rear.roof_backlight_radius: 380 mm}}
     """
     degrees = math.degrees(sheet.get("rear.backlight_angle"))
     low, high = math.degrees(ctx["critical_low"]), math.degrees(ctx["critical_high"])
@@ -85,7 +90,8 @@ def backlight_angle(sheet, ctx):
     beyond = min(max(high + 1, 35.0), SQUARE_BACK_ANGLE)  # past the region, on the published curve
     reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(beyond))
     step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
-    steadied = 1 - 0.6 * min(1.0, (ratio or 0.0) / ctx["generous_radius"])  # the radius lowers the estimate too
+    share = 1.0 if generous else (ratio / ctx["generous_radius"] if ratio else 0.0)  # a ratio below the limit
+    steadied = 1 - 0.6 * share  # the radius lowers the estimate too
     counts = counts_range(200 * (step - spread) * steadied, 600 * (step + spread) * steadied)
     details = {"ahmed_step": round(step, 4), "ahmed_uncertainty": spread, "radius_factor": round(steadied, 3)}
     if low <= degrees <= high:
@@ -145,6 +151,10 @@ def side_taper(sheet, ctx):
 
     Known limits: one angle describes the taper; its length and the curvature where it
     starts matter as much.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {rear.side_taper_angle: 20 deg}}
+        passes: {features: {rear.side_taper_angle: 9 deg}}
     """
     return _taper(sheet, ctx, "rear.side_taper_angle", "side")
 
@@ -168,6 +178,10 @@ def roof_taper(sheet, ctx):
     Known limits: where the rear is slanted (a backlight of 40 deg or less), the roof end is
     the backlight and the backlight rule judges it; this rule then does not run, so the
     backlight's slope is never charged twice as a roof taper.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {vehicle.class: suv, rear.backlight_angle: 60 deg, rear.roof_taper_angle: 16.5 deg}}
+        passes: {features: {vehicle.class: suv, rear.backlight_angle: 60 deg, rear.roof_taper_angle: 8 deg}}
     """
     return _taper(sheet, ctx, "rear.roof_taper_angle", "roof")
 
@@ -188,6 +202,10 @@ def separation_edge(sheet, ctx):
     of the base; lamp and bumper parting lines can carry the edge.
 
     Known limits: one radius for the whole perimeter; a locally rounded corner matters less.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {rear.separation_edge_radius: 25 mm}}
+        passes: {features: {rear.separation_edge_radius: 3 mm}}
     """
     radius = sheet.get("rear.separation_edge_radius")
     if radius > ctx["radius"]:
@@ -215,6 +233,10 @@ def spoiler(sheet, ctx):
 
     Known limits: the best height depends on the backlight and decklid; check rear lift
     and stability before and after any change.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {rear.spoiler_height: 0 mm}}
+        passes: {features: {rear.spoiler_height: 22 mm}}
     """
     height = sheet.get("rear.spoiler_height")
     measured = f"{height * 1000:.0f} mm"
@@ -243,6 +265,10 @@ def roof_rails(sheet, ctx):
     accessory only.
 
     Known limits: the estimate is for rails without cross bars; bars and loads cost far more.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {rear.roof_rails: raised}}
+        passes: {features: {rear.roof_rails: none}}
     """
     rails = sheet.get("rear.roof_rails")
     if rails == "raised":
@@ -276,6 +302,10 @@ def decklid_length(sheet, ctx):
 
     Known limits: the height of the decklid above the backlight base matters as much as its
     length; the sheet records only the length and the decklid angle.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {rear.decklid_length: 150 mm}}
+        passes: {features: {rear.decklid_length: 300 mm}}
     """
     share = sheet.get("rear.decklid_length") / sheet.get("dimensions.length")
     measured = f"{share * 100:.1f} % of the length ({sheet.get('rear.decklid_length') * 1000:.0f} mm)"
@@ -305,6 +335,10 @@ def decklid_angle(sheet, ctx):
 
     Known limits: one chord angle; a deck that falls and then kicks up at the edge is judged
     by its chord only, and the spoiler rule judges the kick-up.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {rear.decklid_angle: 12 deg}}
+        passes: {features: {rear.decklid_angle: 2 deg}}
     """
     degrees, falling = math.degrees(sheet.get("rear.decklid_angle")), math.degrees(ctx["falling"])
     measured = f"{degrees:+.1f} deg"
@@ -341,6 +375,10 @@ def base_area(sheet, ctx):
 
     Known limits: the base pressure itself depends on the tapers and the underbody flow;
     the estimate assumes a usual car base pressure.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {rear.base_area: 1.2 m^2}}
+        passes: {features: {rear.base_area: 0.8 m^2}}
     """
     share = sheet.get("rear.base_area") / sheet.get("dimensions.frontal_area")
     limit_share = ctx["box_share"] if sheet.get("vehicle.class") in BOX_CLASSES else ctx["car_share"]

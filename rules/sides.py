@@ -37,6 +37,10 @@ def mirror_area(sheet, ctx):
 
     Known limits: the interference with the A-pillar vortex can add or remove drag beyond
     the isolated estimate.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {sides.mirror_kind: conventional, sides.mirror_area: 0.05 m^2}}
+        passes: {features: {sides.mirror_kind: camera, sides.mirror_area: 0.016 m^2}}
     """
     if sheet.get("sides.mirror_kind") == "none":
         return passed("no exterior mirrors", measured="none")
@@ -70,6 +74,10 @@ def mirror_gap(sheet, ctx):
 
     Known limits: mirrors mounted on the door skin below the glass line are judged by the
     same number, which is a simplification.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {sides.mirror_gap: 30 mm}}
+        passes: {features: {sides.mirror_gap: 60 mm}}
     """
     if sheet.get("sides.mirror_kind") == "none":
         return passed("no exterior mirrors", measured="none")
@@ -94,6 +102,10 @@ def door_handles(sheet, ctx):
     How to fix: use flush or pop-out handles, or recess the handle into the skin.
 
     Known limits: the effect is small; flush handles bring their own cost and icing issues.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {sides.door_handles: protruding}}
+        passes: {features: {sides.door_handles: flush}}
     """
     handles = sheet.get("sides.door_handles")
     if handles == "protruding":
@@ -117,6 +129,10 @@ def sill_step(sheet, ctx):
     How to fix: bring the sill or side skirt out to within 15 mm of the door skin line.
 
     Known limits: styling often wants the shadow line; the drag effect is small.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {sides.sill_step: 30 mm}}
+        passes: {features: {sides.sill_step: 8 mm}}
     """
     step = sheet.get("sides.sill_step")
     if step > ctx["step"]:
@@ -142,6 +158,10 @@ def panel_gap(sheet, ctx):
     flush seals at the leading edges.
 
     Known limits: the drag effect is small; a sealed wide gap costs less than an open narrow one.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {sides.panel_gap: 7 mm}}
+        passes: {features: {sides.panel_gap: 3.5 mm}}
     """
     gap = sheet.get("sides.panel_gap")
     measured, limit = f"{gap * 1000:.1f} mm", f"<= {ctx['gap'] * 1000:.0f} mm"

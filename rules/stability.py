@@ -96,6 +96,10 @@ def rear_lift(sheet, ctx):
 
     Known limits: static coefficients at zero yaw; rear lift usually rises with yaw, and
     pitch under load changes it. Lift coefficients come from the sheet's results.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (failure): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.15}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04}]}
     """
     return _unloading(sheet, ctx, "rear")
 
@@ -119,6 +123,10 @@ def front_lift(sheet, ctx):
 
     Known limits: as for rear lift: zero yaw, static ride height, coefficients from the sheet;
     the same tighter limits apply above 250 km/h and to sports cars.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.25, cl_rear: 0.0}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.12, cl_rear: 0.0}]}
     """
     return _unloading(sheet, ctx, "front")
 
@@ -142,6 +150,10 @@ def lift_balance(sheet, ctx):
 
     Known limits: the acceptable balance depends on the chassis; the rule flags rear-biased
     lift only.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.08}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04}]}
     """
     result = lift_result(sheet)
     if result is None:
@@ -196,6 +208,14 @@ def yaw_rear_lift(sheet, ctx):
 
     Known limits: needs a sweep with rear lift at 0 and 10 deg (interpolated between
     measured angles); quasi-steady.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04,
+            yaw_sweep: [{yaw: 0 deg, cd: 0.25, cl_rear: 0.04}, {yaw: 10 deg, cd: 0.25, cl_rear: 0.16}, {yaw: -10 deg, cd:
+            0.25, cl_rear: 0.16}]}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04, yaw_sweep:
+            [{yaw: 0 deg, cd: 0.25, cl_rear: 0.04}, {yaw: 10 deg, cd: 0.25, cl_rear: 0.076}, {yaw: -10 deg, cd: 0.25,
+            cl_rear: 0.076}]}]}
     """
     found = sweep_at(sheet, "cl_rear", 10)
     if found is None:
@@ -231,6 +251,14 @@ def yaw_front_lift(sheet, ctx):
     (the windward corner separates at yaw) and air curtains; confirm on a proving ground.
 
     Known limits: needs a sweep with front lift at 0 and 10 deg; quasi-steady.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04,
+            yaw_sweep: [{yaw: 0 deg, cd: 0.25, cl_front: 0.02}, {yaw: 5 deg, cd: 0.25, cl_front: 0.06}, {yaw: 10 deg, cd:
+            0.25, cl_front: 0.12}]}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04, yaw_sweep:
+            [{yaw: 0 deg, cd: 0.25, cl_front: 0.02}, {yaw: 5 deg, cd: 0.25, cl_front: 0.03}, {yaw: 10 deg, cd: 0.25,
+            cl_front: 0.05}]}]}
     """
     found = sweep_at(sheet, "cl_front", 10)
     if found is None:
@@ -274,6 +302,12 @@ def yaw_drag_rise(sheet, ctx):
     corners, and check the rear end at yaw in CFD or the tunnel.
 
     Known limits: needs a sweep with Cd at 0 and 10 deg; the estimate is rough.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04,
+            yaw_sweep: [{yaw: 0 deg, cd: 0.2320}, {yaw: 10 deg, cd: 0.3016}, {yaw: -10 deg, cd: 0.3016}]}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04, yaw_sweep:
+            [{yaw: 0 deg, cd: 0.2320}, {yaw: 10 deg, cd: 0.2506}, {yaw: -10 deg, cd: 0.2506}]}]}
     """
     found = sweep_at(sheet, "cd", 10)
     if found is None:
@@ -311,6 +345,14 @@ def wind_averaged_drag(sheet, ctx):
 
     Known limits: needs a sweep that reaches the largest yaw the wind gives (6.5 deg at
     100 km/h); quasi-steady, and the 7 mph wind is the standard's, not a local climate.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04,
+            yaw_sweep: [{yaw: 0 deg, cd: 0.2320}, {yaw: 4 deg, cd: 0.2598}, {yaw: 8 deg, cd: 0.2877}, {yaw: -4 deg, cd:
+            0.2598}, {yaw: -8 deg, cd: 0.2877}]}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04, yaw_sweep:
+            [{yaw: 0 deg, cd: 0.2320}, {yaw: 4 deg, cd: 0.2394}, {yaw: 8 deg, cd: 0.2468}, {yaw: -4 deg, cd: 0.2394}, {yaw:
+            -8 deg, cd: 0.2468}]}]}
     """
     sweeps = [r for r in sheet.results if len(r.yaw_sweep) >= 2]
     if not sweeps:

@@ -45,6 +45,10 @@ def panel_coverage(sheet, ctx):
 
     Known limits: coverage alone does not say how smooth the panels are or how they end;
     the battery floor is assumed for every electric vehicle.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {underbody.panel_coverage: 40 %}}
+        passes: {features: {underbody.panel_coverage: 0.9}}
     """
     coverage = sheet.get("underbody.panel_coverage")
     target = ctx["battery_target"] if sheet.get("powertrain.kind") == "electric" else ctx["target"]
@@ -84,6 +88,10 @@ def diffuser_angle(sheet, ctx):
 
     Known limits: wheel wakes and exposed parts in the diffuser move the separation angle;
     results at one ride height.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (failure): {features: {underbody.diffuser_angle: 16 deg}}
+        passes: {features: {underbody.diffuser_angle: 8 deg}}
     """
     degrees = math.degrees(sheet.get("underbody.diffuser_angle"))
     separation, edge = math.degrees(ctx["separation"]), math.degrees(ctx["edge"])
@@ -114,6 +122,10 @@ def diffuser_exposed(sheet, ctx):
 
     Known limits: the feature is a count of parts, not a fraction; parts differ in size and
     the estimate counts them equally.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {underbody.diffuser_exposed_parts: 2}}
+        passes: {features: {underbody.diffuser_exposed_parts: 0}}
     """
     parts = int(round(sheet.get("underbody.diffuser_exposed_parts")))
     if parts > 0:
@@ -140,6 +152,10 @@ def pitch(sheet, ctx):
     (0 to +0.5 deg) at the design load.
 
     Known limits: pitch changes with load and speed; the rule looks at the curb state only.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {underbody.pitch: -1.5 deg}}
+        passes: {features: {underbody.pitch: 0.3 deg}}
     """
     angle = sheet.get("underbody.pitch")
     degrees = math.degrees(angle)
@@ -175,6 +191,10 @@ def diffuser_area_ratio(sheet, ctx):
 
     Known limits: the ground clearance between the axles stands for the diffuser's inlet
     height; wheel wakes and exposed parts reduce the usable ratio.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {underbody.diffuser_length: 1500 mm}}
+        passes: {features: {underbody.diffuser_length: 700 mm}}
     """
     height = sheet.get("dimensions.ground_clearance")
     rise = sheet.get("underbody.diffuser_length") * math.tan(sheet.get("underbody.diffuser_angle"))
@@ -209,6 +229,10 @@ def diffuser_end_step(sheet, ctx):
     panel that continues the ramp.
 
     Known limits: one height on the centreline; the step may vary across the width.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {underbody.diffuser_end_step: 60 mm}}
+        passes: {features: {underbody.diffuser_end_step: 10 mm}}
     """
     step = sheet.get("underbody.diffuser_end_step")
     measured, limit = f"{step * 1000:.0f} mm", f"<= {ctx['step'] * 1000:.0f} mm"
@@ -236,6 +260,10 @@ def nose_rake(sheet, ctx):
     air dam.
 
     Known limits: static, at curb ride height; the air dam depth changes how much the rake matters.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {underbody.nose_rake: -2 deg}}
+        passes: {features: {underbody.nose_rake: 4 deg}}
     """
     degrees = math.degrees(sheet.get("underbody.nose_rake"))
     low, high = math.degrees(ctx["minimum"]), math.degrees(ctx["maximum"])

@@ -40,6 +40,10 @@ def rim_openness(sheet, ctx):
     Known limits: the spoke shape and the rim's outer lip matter beside the open share;
     brake cooling sets a floor. The estimate scales with the rim disc area when the rim
     diameter is given.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {wheels.rim_openness: 50 %}}
+        passes: {features: {wheels.rim_openness: 0.18}}
     """
     openness = sheet.get("wheels.rim_openness")
     size = (sheet.get("wheels.rim_diameter") or REFERENCE_RIM) / REFERENCE_RIM
@@ -72,6 +76,10 @@ def front_deflector(sheet, ctx):
     width.
 
     Known limits: the best height depends on the air dam and the tyre; tune in CFD or the tunnel.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {wheels.front_deflector_height: 0 mm}}
+        passes: {features: {wheels.front_deflector_height: 35 mm}}
     """
     height = sheet.get("wheels.front_deflector_height")
     limits = f"{ctx['minimum'] * 1000:.0f}-{ctx['maximum'] * 1000:.0f} mm"
@@ -99,6 +107,10 @@ def rear_strakes(sheet, ctx):
 
     Known limits: with a fully panelled floor and a diffuser, strakes mainly protect the
     diffuser; their gain shows best in CFD.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {wheels.rear_strakes: false}}
+        passes: {features: {wheels.rear_strakes: true}}
     """
     if sheet.get("wheels.rear_strakes"):
         return passed("rear strakes are fitted", measured="fitted")
@@ -120,6 +132,10 @@ def wheelhouse_gap(sheet, ctx):
     fit arch liners that close the volume above the tyre.
 
     Known limits: ride height and suspension travel set a floor the rule does not know.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {wheels.wheelhouse_gap: 70 mm}}
+        passes: {features: {wheels.wheelhouse_gap: 32 mm}}
     """
     gap = sheet.get("wheels.wheelhouse_gap")
     if gap > ctx["gap"]:
@@ -144,6 +160,10 @@ def wheelhouse_vent(sheet, ctx):
 
     Known limits: the gain depends on what feeds the wheelhouse; without air curtains or a
     wheelhouse cooling outlet it is small.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {wheels.wheelhouse_vented: false, cooling.outlet: underbody}}
+        passes: {features: {wheels.wheelhouse_vented: true, cooling.outlet: wheelhouse}}
     """
     if sheet.get("wheels.wheelhouse_vented"):
         return passed("the front wheelhouse is vented", measured="vented")
@@ -169,6 +189,10 @@ def rear_arch_exit(sheet, ctx):
     small lip.
 
     Known limits: one radius; the arch liner shape behind it matters too.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {wheels.rear_arch_exit_radius: 20 mm}}
+        passes: {features: {wheels.rear_arch_exit_radius: 3 mm}}
     """
     radius = sheet.get("wheels.rear_arch_exit_radius")
     if radius > ctx["radius"]:
@@ -203,6 +227,10 @@ def tyre_width(sheet, ctx):
 
     Known limits: the tyre's shoulder and sidewall shape matter as much (see the
     tyre-shoulder rule); the wake treatment halves the estimate, a rough figure.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {wheels.tyre_width: 275 mm}}
+        passes: {features: {wheels.tyre_width: 235 mm}}
     """
     width = sheet.get("wheels.tyre_width")
     share = width / sheet.get("dimensions.width")
@@ -238,6 +266,10 @@ def tyre_shoulder(sheet, ctx):
 
     Known limits: tyre choice is ruled by grip, wear, noise and rolling resistance first;
     the drag effect is small and varies between tyres.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {wheels.tyre_shoulder: square}}
+        passes: {features: {wheels.tyre_shoulder: rounded}}
     """
     shoulder = sheet.get("wheels.tyre_shoulder")
     if shoulder == "square":

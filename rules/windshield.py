@@ -32,6 +32,10 @@ def windshield_angle(sheet, ctx):
 
     Known limits: the gain also depends on the header radius and the hood-to-glass angle;
     vans and pickups are excluded because their packages fix the screen.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {windshield.angle: 45 deg}}
+        passes: {features: {windshield.angle: 27 deg}}
     """
     angle = sheet.get("windshield.angle")
     degrees = math.degrees(angle)
@@ -66,6 +70,10 @@ def a_pillar_radius(sheet, ctx):
     pillar trim so that the transition is continuous.
 
     Known limits: one radius at mid height; drag is less sensitive than wind noise here.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {windshield.a_pillar_radius: 8 mm}}
+        passes: {features: {windshield.a_pillar_radius: 38 mm}}
     """
     radius = sheet.get("windshield.a_pillar_radius")
     measured = f"{radius * 1000:.0f} mm"
@@ -95,6 +103,10 @@ def a_pillar_step(sheet, ctx):
     below 6 mm and round its edge.
 
     Known limits: water management may need a gutter; the rule does not weigh that.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {features: {windshield.a_pillar_step: 10 mm}}
+        passes: {features: {windshield.a_pillar_step: 2 mm}}
     """
     step = sheet.get("windshield.a_pillar_step")
     measured = f"{step * 1000:.1f} mm"
@@ -119,6 +131,10 @@ def header_radius(sheet, ctx):
     How to fix: soften the header radius (60 mm or more), or lay the windshield back.
 
     Known limits: a small radius may still hold attached flow on a well laid-back screen.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {windshield.header_radius: 30 mm}}
+        passes: {features: {windshield.header_radius: 120 mm}}
     """
     radius = sheet.get("windshield.header_radius")
     if radius < ctx["radius"]:
@@ -141,6 +157,10 @@ def wipers(sheet, ctx):
     How to fix: park the wipers below the hood line, or extend the hood trailing edge over them.
 
     Known limits: the effect is small; it is listed because it is cheap to fix early.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (advisory): {features: {windshield.wipers_concealed: false}}
+        passes: {features: {windshield.wipers_concealed: true}}
     """
     if sheet.get("windshield.wipers_concealed"):
         return passed("the wipers are concealed", measured="concealed")

@@ -122,8 +122,10 @@ def test_severity_changes_statuses_but_not_the_score():
 def test_score_weighs_cost_and_ignores_data_quality():
     review = review_sheet(PROBLEM, Settings())
     assert 0 <= review.score < 25 and review.zones["data"].score is None and review.confidence == 1
-    clean = review_sheet(load_sheet(VEHICLES / "tessel" / "r2.yaml"), Settings())
-    assert clean.score == 100 and clean.estimate.mid == 0
+    clean = load_sheet(VEHICLES / "tessel" / "r2.yaml")
+    advisories = [f.rule.id for f in review_sheet(clean, Settings()).findings if f.status not in ("pass", "not assessed")]
+    nothing_left = review_sheet(clean, Settings(overrides={r: RuleOverride(disabled=True) for r in advisories}))
+    assert nothing_left.score == 100 and nothing_left.estimate.mid == 0
 
 
 def test_estimates_settings_override_the_table(tmp_path):
@@ -236,3 +238,31 @@ def test_summary_statistics_by_hand():
     assert [p.within_range for p in found] == [False, True]
     assert summary(found) == {"pairs": 2, "mean_abs_error_counts": pytest.approx(3.0), "bias_counts": pytest.approx(1.0),
                               "within_range_share": 0.5}
+
+
+def test_site_pages_show_the_combined_figures_and_the_track_record():
+    """Pages format the engine's numbers: the combined estimate, the waterfall floor, predicted against measured."""
+    from aeroreview.site.figures import FigureCache
+    from aeroreview.site.pages import generate
+    from conftest import ROOT
+
+    settings = Settings(root=ROOT)
+    reviews = [review_sheet(s, settings) for s in load_fleet([VEHICLES]).sheets]
+    site = generate(reviews, settings, FigureCache(None))
+    record = site.files["fleet/track-record.md"]
+    assert "3 pair(s): mean absolute error" in record and "figures/track-record-" in record
+    for vehicle in ("tessel", "quillon", "dravik"):
+        assert f"[{vehicle}](../fleet/{vehicle}/index.md) | r1 | r2 |" in record
+    tessel = next(p for p in pairs(reviews) if p.vehicle == "tessel")
+    low, mid, high = tessel.predicted
+    diff = site.files["fleet/tessel/r1-to-r2.md"]
+    assert "## Predicted against measured" in diff and f"{low:+.1f} / {mid:+.1f} / {high:+.1f} counts" in diff
+    assert f"{tessel.measured:+.1f} counts, {'inside' if tessel.within_range else 'outside'} the predicted range" in diff
+    e = next(r for r in reviews if r.sheet.label == "tessel@r1").estimate
+    page = site.files["fleet/tessel/r1.md"]
+    assert f"| Recoverable drag, combined | {e.mid:.1f} counts (low {e.low:.1f}, high {e.high:.1f}) |" in page
+    assert f"| Plain sum of the findings | {e.plain_sum_low:.1f}-{e.plain_sum_high:.1f} counts (plain sum" in page
+    assert f"| {e.mid:.1f} ({e.low:.1f}-{e.high:.1f}) |" in site.files["fleet/tessel/index.md"]
+    waterfall = next(v for k, v in site.files.items() if k.startswith("figures/waterfall-")
+                     and f"{e.cd:.3f} to about {e.cd_after['mid']:.3f}".encode() in v)
+    assert f"floor of the class: Cd {e.floor_cd:.3f}".encode() in waterfall

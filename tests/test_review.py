@@ -66,8 +66,9 @@ def test_problem_revision_fails_and_clean_revision_passes(demo, cli):
     assert problem["failing"] and not clean["failing"]
     # clean: no finding at warning or above (advisories may appear as rules are added), full coverage
     assert not [f for f in clean["findings"] if f["status"] in ("warning", "failure")]
-    assert clean["score"] >= 95 and clean["coverage"] == 1
-    assert problem["score"] < 75
+    # the score weighs cost: the clean revision's advisories still claim a share of what is within reach
+    assert clean["score"] >= 60 and clean["coverage"] == 1
+    assert problem["score"] < 25
     assert cli("check", VEHICLES / "tessel" / "r1.yaml").code == 1
     assert cli("check", VEHICLES / "tessel" / "r2.yaml").code == 0
 

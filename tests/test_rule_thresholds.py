@@ -23,3 +23,65 @@ def test_a_critical_region_up_to_the_end_of_the_ahmed_curve_is_checked(tmp_path)
     assert "internal error" not in run.err
     assert run.code in (0, 1), run.err
     assert "rear.backlight-angle" in run.out
+
+
+def _fleet():
+    from aeroreview.sheet import load_fleet
+
+    return load_fleet([VEHICLES]).sheets
+
+
+def _ends():
+    from aeroreview.rules import all_rules
+
+    for rule in all_rules().values():
+        for threshold in rule.thresholds:
+            for end in threshold.allowed_range:
+                yield rule, threshold, end
+
+
+ENDS = list(_ends())
+
+
+def test_every_threshold_at_either_end_of_its_range_runs_without_raising():
+    """Each threshold of each rule, alone at the low and the high end of its allowed range,
+    on every demo revision: the rule reports a verdict (whatever it is), it never raises."""
+    from aeroreview.review import run_rule
+    from aeroreview.rules import Context
+    from aeroreview.settings import Settings
+    from aeroreview.units import to_si
+
+    air = Settings().air()
+    sheets = _fleet()
+    crashed = []
+    for rule, threshold, end in ENDS:
+        value = to_si(f"{end!r} {threshold.unit}".strip(), threshold.unit)
+        context = Context({**rule.defaults(), threshold.name: value}, 130 / 3.6, air.density, air.kinematic_viscosity)
+        for sheet in sheets:
+            if not rule.applies(sheet):
+                continue
+            try:
+                run_rule(rule, sheet, context, rule.severity)
+            except Exception as error:  # noqa: BLE001 - any exception is the defect this test looks for
+                crashed.append(f"{rule.id} {threshold.name}={end:g} {threshold.unit} on {sheet.label}: {error!r}")
+    assert len(ENDS) > 100
+    assert not crashed, "\n".join(crashed)
+
+
+def test_an_override_outside_the_allowed_range_is_a_located_input_error(tmp_path):
+    config = config_file(tmp_path, "        rear.backlight-angle: {thresholds: {critical_high: 120 deg}}\n")
+    run = run_cli("check", VEHICLES / "tessel" / "r1.yaml", "--config", config)
+    assert run.code == 2 and f"{config}:" in run.err and "outside its allowed range 0 to 90 deg" in run.err
+
+
+def test_the_fix_text_takes_the_configured_thresholds(tmp_path):
+    """The backlight's fix names the team's critical region (27 to 33 deg here), not the defaults."""
+    import json
+
+    config = config_file(tmp_path, "        rear.backlight-angle: {thresholds: {critical_low: 27 deg, "
+                                   "critical_high: 33 deg}}\n")
+    run = run_cli("check", VEHICLES / "tessel" / "r1.yaml", "--config", config, "--format", "json")
+    findings = [f for r in json.loads(run.out)["sheets"] for f in r["findings"]
+                if f["rule"] == "rear.backlight-angle" and f["fix"]]
+    assert findings, run.out[:500]
+    assert all("from 27 deg to 33 deg" in f["fix"] and "26 deg" not in f["fix"] for f in findings)

@@ -122,9 +122,10 @@ def ahmed(data) -> bytes:
 
 
 def waterfall(data) -> bytes:
-    steps = data["steps"]
+    """Each ranked fix's marginal saving given those before it, down to the combined mid; the floor drawn."""
+    steps = data["steps"] + ([["other fixes", data["rest"]]] if data["rest"] else [])
     fig, ax = _figure(6.4, max(2.4, 0.28 * (len(steps) + 2)))
-    labels = ["current"] + [s[0] for s in steps] + ["after fixes"]
+    labels = ["current"] + [s[0] for s in steps] + ["combined mid"]
     level = data["cd"]
     ax.barh(0, level, color=OKABE_ITO["blue"])
     for i, (_, counts) in enumerate(steps, start=1):
@@ -132,12 +133,38 @@ def waterfall(data) -> bytes:
         ax.barh(i, -saving, left=level, color=OKABE_ITO["green"])
         level -= saving
     ax.barh(len(steps) + 1, level, color=OKABE_ITO["sky"])
+    ax.axvline(data["floor_cd"], color=OKABE_ITO["vermillion"], linestyle="--", linewidth=1.2)
     ax.set_yticks(range(len(labels)), labels, fontsize=7)
     ax.invert_yaxis()
-    low = min(level, data["cd"]) * 0.9
-    ax.set_xlim(low, data["cd"] * 1.02)
-    ax.set_xlabel("drag coefficient [-] (mid estimate of each fix; effects do not simply add)")
-    ax.set_title(f"The {len(steps)} largest fixes: Cd {data['cd']:.3f} to at best about {level:.3f}")
+    ax.set_xlim(min(level, data["floor_cd"]) - 0.01, data["cd"] * 1.02)
+    ax.annotate(f"floor of the class: Cd {data['floor_cd']:.3f}", (data["floor_cd"], 1), xycoords=("data", "axes fraction"),
+                xytext=(0, 4), textcoords="offset points", ha="center", fontsize=7, color=OKABE_ITO["vermillion"])
+    ax.set_xlabel("drag coefficient [-] (marginal mid saving of each fix given the fixes above it)")
+    ax.set_title(f"Cd {data['cd']:.3f} to about {level:.3f} with every fix combined", pad=16)
+    return _svg(fig)
+
+
+def track_record(data) -> bytes:
+    """Predicted against measured change of Cd per pair, the predicted range as a bar, and the 1:1 line."""
+    fig, ax = _figure(4.8, 4.4)
+    pairs = data["pairs"]
+    values = [v for p in pairs for v in (p["measured"], p["low"], p["high"])] or [0.0]
+    low, high = min(values + [0.0]) - 5, max(values + [0.0]) + 5
+    ax.plot([low, high], [low, high], color=OKABE_ITO["grey"], linewidth=1, label="1:1 (prediction = measurement)")
+    for p in pairs:
+        inside = p["low"] <= p["measured"] <= p["high"]
+        colour = OKABE_ITO["green"] if inside else OKABE_ITO["vermillion"]
+        ax.errorbar(p["measured"], p["mid"], yerr=[[p["mid"] - p["low"]], [p["high"] - p["mid"]]], fmt="o",
+                    color=colour, capsize=3)
+        ax.annotate(f"{p['label']} ({'inside' if inside else 'outside'})", (p["measured"], p["mid"]), xytext=(4, 4),
+                    textcoords="offset points", fontsize=7)
+    ax.set_xlim(low, high)
+    ax.set_ylim(low, high)
+    ax.set_aspect("equal")
+    ax.set_xlabel("measured change of Cd [counts]")
+    ax.set_ylabel("predicted change of Cd [counts] (mid, low-high)")
+    ax.legend(loc="upper left", fontsize=7)
+    ax.set_title("Track record: predicted against measured")
     return _svg(fig)
 
 
@@ -177,7 +204,7 @@ def yaw(data) -> bytes:
 def trends(data) -> bytes:
     fig, axes = plt.subplots(1, 3, figsize=(7.6, 2.6))
     for ax, key, label, colour in zip(axes, ("cd", "score", "recoverable"),
-                                      ("Cd [-]", "score [0-100]", "recoverable counts (mid)"),
+                                      ("Cd [-]", "score [0-100]", "recoverable counts (combined mid)"),
                                       (OKABE_ITO["blue"], OKABE_ITO["green"], OKABE_ITO["vermillion"])):
         values = [v if v is not None else float("nan") for v in data[key]]
         ax.plot(data["revisions"], values, color=colour, marker="o")
@@ -295,6 +322,7 @@ def buildup_diff(data) -> bytes:
 
 
 DRAWERS = {"drag-power": drag_power, "lift": lift, "energy": energy, "ahmed": ahmed, "waterfall": waterfall,
+           "track-record": track_record,
            "zones": zones, "yaw": yaw, "trends": trends, "silhouette": silhouette, "sections": sections,
            "history": history, "buildup": buildup, "buildup-diff": buildup_diff}
 

@@ -12,11 +12,11 @@ from __future__ import annotations
 
 import datetime
 
-from aeroreview import digest
+from aeroreview import digest, track_record
 from aeroreview.review import Review
 from aeroreview.settings import Settings
 from aeroreview.site.figures import FigureCache
-from aeroreview.site.pages import diff, features, fleet, revision, rules, vehicle
+from aeroreview.site.pages import diff, features, fleet, record, revision, rules, vehicle
 from aeroreview.site.pages.common import Output, Site, esc, heading
 
 __all__ = ["Site", "esc", "generate", "heading"]
@@ -39,6 +39,9 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
     grouped = by_vehicle(reviews)
     geometry_cache = cache.folder.parent / "aeroreview-geometry" if cache.folder else None
     fleet.write(out, grouped)
+    found = track_record.pairs(reviews)
+    record.write(out, found)
+    pair_of = {(p.vehicle, p.parent, p.child): p for p in found}
     for vehicle_id, revisions in grouped.items():
         vehicle.write(out, vehicle_id, revisions)
         drawn = {}
@@ -50,7 +53,9 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
             if review.sheet.parent in known:
                 before = known[review.sheet.parent]
                 buildups = (drawn[before.sheet.revision].buildup, drawn[review.sheet.revision].buildup)
-                diff.write(out, before, review, digest.changes(before, review, buildups))
+                diff.write(out, before, review, digest.changes(before, review, buildups),
+                           track_record.predicted_change(before, review, before.frame),
+                           pair_of.get((vehicle_id, before.sheet.revision, review.sheet.revision)))
     rules.write(out, grouped)
     features.write(out)
     return out.site

@@ -72,7 +72,9 @@ def score_text(review: Review) -> str:
 
 
 def recoverable_text(review: Review) -> str:
-    return f"{review.recoverable[0]:g}-{review.recoverable[1]:g}"
+    """The combined saving [counts]: mid, and the low-high range."""
+    e = review.estimate
+    return f"{e.mid:.1f} ({e.low:.1f}-{e.high:.1f})"
 
 
 @dataclass

@@ -7,10 +7,12 @@ from dataclasses import asdict
 from aeroreview.digest import Changes
 from aeroreview.results.evidence import BuildupChange
 from aeroreview.review import Review
+from aeroreview.track_record import Pair
 from aeroreview.site.pages.common import Output, badge, esc, heading, link, recoverable_text, score_text
 
 
-def write(out: Output, before: Review, after: Review, changes: Changes) -> None:
+def write(out: Output, before: Review, after: Review, changes: Changes, predicted: tuple[float, float, float],
+          pair: Pair | None) -> None:
     a, b = before.sheet, after.sheet
     lines = [heading(f"{b.name}: {a.revision} to {b.revision}"), "",
              f"From [{esc(a.revision)}]({a.revision}.md) to [{esc(b.revision)}]({b.revision}.md).", "",
@@ -23,7 +25,9 @@ def write(out: Output, before: Review, after: Review, changes: Changes) -> None:
     lines += [f"| {label} | {was} | {now} | {delta} |" for label, was, now, delta in _numbers(before, after)]
     if changes.buildup:
         lines += buildup(out, changes.buildup, a.revision, b.revision)
-    lines += ["", "## Findings", ""]
+    lines += [""]
+    lines += prediction(before, predicted, pair)
+    lines += ["## Findings", ""]
     for name, items in changes.findings.items():
         lines += [f"### {name.capitalize()} ({len(items)})", ""]
         lines += [f"- {link(f'rules/{c.finding.rule.id}.md', c.finding.rule.id, 2)}: {c.was} → "
@@ -68,3 +72,20 @@ def _numbers(before: Review, after: Review) -> list[tuple[str, str, str, str]]:
     out += [("Score", score_text(before), score_text(after), ""),
             ("Recoverable [counts]", recoverable_text(before), recoverable_text(after), "")]
     return out
+
+
+def prediction(before: Review, predicted: tuple[float, float, float], pair: Pair | None) -> list[str]:
+    """Predicted low-mid-high change of Cd from the findings, against the measured change when there is one."""
+    low, mid, high = pair.predicted if pair else predicted
+    lines = ["## Predicted against measured", "",
+             f"From the findings that changed, the combination model predicts a change of Cd of {low:+.1f} / "
+             f"{mid:+.1f} / {high:+.1f} counts (low / mid / high), against the parent's "
+             f"Cd {pair.parent_cd if pair else before.estimate.cd:.3f}.", ""]
+    if pair:
+        verdict = "inside" if pair.within_range else "outside"
+        lines += [f"Measured ({pair.kind}, Cd {pair.parent_cd:.3f} to {pair.child_cd:.3f}): {pair.measured:+.1f} "
+                  f"counts, {verdict} the predicted range (error {pair.error:+.1f} counts). See the "
+                  f"{link('fleet/track-record.md', 'track record', 2)}.", ""]
+    else:
+        lines += ["No measured change: the two revisions have no results of the same kind, scale and speed.", ""]
+    return lines

@@ -22,7 +22,9 @@ def fleet_table(by_vehicle: dict[str, list[Review]], depth: int) -> str:
             f"| {tally['failure']} / {tally['warning']} "
             f"| {recoverable_text(latest)} "
             f"| {latest.sheet.reviewed.isoformat() if latest.sheet.reviewed else 'not given'} |")
-    return "\n".join(rows) + f"\n\nRecoverable counts are low-high sums; {ADDITIVITY_NOTE}.\n"
+    return "\n".join(rows) + (f"\n\nRecoverable counts are the combined mid (low-high) of the unresolved findings; "
+                               f"{ADDITIVITY_NOTE}. See the {link('methods/estimates.md', 'estimates method', depth)} "
+                               f"and the {link('fleet/track-record.md', 'track record', depth)}.\n")
 
 
 def write(out: Output, by_vehicle: dict[str, list[Review]]) -> None:

@@ -30,8 +30,8 @@ def write(out: Output, review: Review, figures: RevisionFigures) -> None:
     gate = failing(review, fail_on)
     verdict = (f"**Fails the gate** (fail level {fail_on}): " + ", ".join(f.rule.id for f in gate)) if gate \
         else f"Passes the gate (fail level {fail_on})."
-    lines += [f"**Score {score_text(review)}** · recoverable {recoverable_text(review)} "
-              f"drag counts ({ADDITIVITY_NOTE}) · {verdict}", "", CAUTION]
+    lines += [f"**Score {score_text(review)}** · recoverable {recoverable_text(review)} drag counts combined, "
+              f"Cd to about {review.estimate.cd_after['mid']:.3f} · {verdict}", "", CAUTION]
     lines += key_numbers(review)
     lines += revision_figures.section(out, review, figures)
     lines += findings(review)
@@ -74,10 +74,25 @@ def key_numbers(review: Review) -> list[str]:
         if effect.get("range_km") is not None:
             parts.append(f"{effect['range_km']:+.1f} km of range")
         rows.append((f"+10 counts on {cycle}", ", ".join(parts)))
+    rows += estimate_rows(review)
     table = ["## Key numbers", "", "| Quantity | Value |", "|---|---|"] + [f"| {a} | {b} |" for a, b in rows]
     if review.assumptions:
         table += ["", "Assumed where the sheet is silent: " + "; ".join(esc(a) for a in review.assumptions) + "."]
     return table + [""]
+
+
+def estimate_rows(review: Review) -> list[tuple[str, str]]:
+    """The combined estimate (the headline), the floor it saturates toward, and the plain sum (labelled)."""
+    e, after = review.estimate, review.estimate.cd_after
+    raised = f", raised for {', '.join(e.raised_for)}" if e.raised_for else ""
+    confidence = "no data-quality check assessed" if review.confidence is None else \
+        f"{review.confidence * 100:.0f} % of the data-quality checks pass"
+    return [("Recoverable drag, combined", f"{e.mid:.1f} counts (low {e.low:.1f}, high {e.high:.1f})"),
+            ("Cd after the fixes, combined", f"{after['mid']:.3f} ({after['low']:.3f}-{after['high']:.3f})"),
+            ("Floor of the class", f"Cd {e.floor_cd:.3f}{raised}"),
+            ("Plain sum of the findings", f"{e.plain_sum_low:.1f}-{e.plain_sum_high:.1f} counts (plain sum, "
+                                          "not a prediction: fixes interact)"),
+            ("Confidence", confidence)]
 
 
 def findings(review: Review) -> list[str]:
@@ -99,7 +114,7 @@ def findings(review: Review) -> list[str]:
         details = [f for f in items if f.status not in ("pass", NOT_ASSESSED)]
         if details:
             out += ["", "Fixes, sources and waivers:", ""]
-            out += [f"- **{f.rule.id}**: {esc(f.rule.fix)} *Sources:* {sources(f)}.{waiver(f)}" for f in details]
+            out += [f"- **{f.rule.id}**: {esc(f.fix)} *Sources:* {sources(f)}.{waiver(f)}" for f in details]
         out.append("")
     return out
 
@@ -120,9 +135,12 @@ def ranked_fixes(review: Review) -> list[str]:
     fixes = review.ranked_fixes
     if not fixes:
         return ["## Ranked fixes", "", "No costed finding: nothing to recover.", ""]
-    out = ["## Ranked fixes", "", f"By the middle of each estimate; {ADDITIVITY_NOTE}.", ""]
+    marginal = dict(review.estimate.waterfall)
+    out = ["## Ranked fixes", "", f"By the middle of each estimate, with each fix's marginal saving given the fixes "
+           f"ranked before it; {ADDITIVITY_NOTE}.", ""]
     for i, f in enumerate(fixes, 1):
-        out.append(f"{i}. **{f.rule.id}** ({f.status}): {estimate(f)}; {consequence(f)}")
+        out.append(f"{i}. **{f.rule.id}** ({f.status}): {estimate(f)}, marginal {marginal.get(f.rule.id, 0):.1f} "
+                   f"counts; {consequence(f)}")
     return out + [""]
 
 

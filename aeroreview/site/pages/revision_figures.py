@@ -15,7 +15,7 @@ from aeroreview.review import Review
 from aeroreview.rules import ZONES
 from aeroreview.site.pages.common import Output, esc
 
-WATERFALL_STEPS = 8  # the largest fixes only: beyond these, interactions swamp the sum
+WATERFALL_STEPS = 8  # the largest fixes drawn one by one; the rest as one step (our convention)
 
 
 def ahmed_data(curve: AhmedCurve) -> dict:
@@ -55,12 +55,14 @@ def section(out: Output, review: Review, figures: RevisionFigures) -> list[str]:
     if figures.ahmed:
         lines += [out.figure("ahmed", ahmed_data(figures.ahmed), f"The backlight angle {figures.ahmed.angle:.1f} deg "
                              "on the Ahmed-body drag curve, with the critical region near 30 deg", 2), ""]
-    fixes = review.ranked_fixes[:WATERFALL_STEPS]
-    if fixes:
-        steps = [[f.rule.id, round(f.benefit, 2)] for f in fixes]
-        lines += [out.figure("waterfall", {"cd": n["cd"], "steps": steps},
-                             f"Savings waterfall from Cd {n['cd']:.3f} through the {len(steps)} largest ranked fixes",
-                             2), ""]
+    e = review.estimate
+    if e.waterfall:
+        steps = [[rule, round(counts, 2)] for rule, counts in e.waterfall[:WATERFALL_STEPS]]
+        rest = round(sum(counts for _, counts in e.waterfall[WATERFALL_STEPS:]), 2)
+        data = {"cd": round(e.cd, 4), "floor_cd": round(e.floor_cd, 4), "steps": steps, "rest": rest}
+        lines += [out.figure("waterfall", data, f"Savings waterfall from Cd {e.cd:.3f} to {e.cd_after['mid']:.3f} "
+                             f"(combined mid) through the marginal savings of {len(e.waterfall)} ranked fixes; "
+                             f"floor of the class Cd {e.floor_cd:.3f}", 2), ""]
     if figures.yaw:
         lines += yaw(out, figures.yaw)
     if figures.geometry:

@@ -28,6 +28,11 @@ def rule_page(out: Output, rule: Rule, by_vehicle: dict[str, list[Review]]) -> s
              + (f" · applies to {', '.join(rule.applies_to)}" if rule.applies_to else ""), ""]
     for title, body in rule.doc.items():
         lines += [f"## {title}", "", body[0].upper() + body[1:], ""]
+    if rule.examples:
+        lines += ["## Examples", "", "Changes to the demo's clean revision (`vehicles/tessel/r2.yaml`) and what the rule "
+                  "then reports:", ""]
+        lines += [f"- {'passes' if status == 'pass' else 'fails (' + status + ')'}: `{fragment}`"
+                  for status, fragment in rule.examples] + [""]
     if rule.thresholds:
         lines += ["## Thresholds", "", "Override them in the `aeroreview` section of `mkdocs.yml`.", "",
                   "| Name | Default | Meaning | Source | Kind |", "|---|---|---|---|---|"]

@@ -25,7 +25,7 @@ def write(out: Output, vehicle_id: str, reviews: list[Review]) -> None:
     data = {"name": latest.sheet.name, "revisions": [r.sheet.revision for r in reviews],
             "cd": [round(r.key_numbers["cd"], 4) for r in reviews],
             "score": [None if r.score is None else round(r.score, 1) for r in reviews],
-            "recoverable": [round(sum(r.recoverable) / 2, 1) for r in reviews]}
+            "recoverable": [round(r.estimate.mid, 1) for r in reviews]}
     alt = (f"Revision trends of {latest.sheet.name}: Cd " + ", ".join(f"{c:.3f}" for c in data["cd"])
            + "; score " + ", ".join(f"{s:.0f}" if s is not None else "none" for s in data["score"]))
     lines += ["", "## Trends", "", out.figure("trends", data, alt, 2), ""]
