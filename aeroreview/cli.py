@@ -14,7 +14,7 @@ import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, baseline, calc_cli, report, results_cli, review, schema, template
+from aeroreview import __version__, baseline, calc_cli, calibrate_cli, report, results_cli, review, schema, template
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError, clean
@@ -66,7 +66,7 @@ def _cmd_check(args) -> int:
     bad_files = {p.file for p in problems}
     reviews = [review.review_sheet(s, settings) for s in fleet.sheets if s.path not in bad_files]
     before = baseline.load(args.baseline) if args.baseline else None
-    notices = fleet.warnings + [n for r in reviews for n in r.notices]
+    notices = settings.notices + fleet.warnings + [n for r in reviews for n in r.notices]
     data = report.rounded(report.as_json(reviews, problems + notices, fail_on))
     if before is not None:
         baseline.apply(data, before)
@@ -189,6 +189,12 @@ def _cmd_explain(args) -> int:
         sens = rule.sensitivity
         print(f"\nSensitivity: {sens.counts_per_unit:+g} counts per {sens.unit} of {sens.feature} "
               f"({sens.valid[0]:g} to {sens.valid[1]:g} {sens.unit}) [{sens.source.kind}: {sens.source.citation}]")
+        calibrated = load_settings(args.config).calibrated.get(sens.feature)
+        if calibrated:
+            cal, slope = calibrated
+            print(f"  [team data] {cal.label}: {slope.counts_per_unit:+.3g} counts per {slope.unit} (95 % "
+                  f"{slope.ci95[0]:+.3g} to {slope.ci95[1]:+.3g}, {slope.agreement}); used inside "
+                  f"{slope.study_range[0]:g}-{slope.study_range[1]:g} {slope.unit}")
     print("\nSources:")
     for source in rule.sources:
         print(f"  [{source.kind}] {source.citation}")
@@ -242,6 +248,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     explain = sub.add_parser("explain", help="print a rule's documentation, thresholds and sources")
     explain.add_argument("rule_id", metavar="RULE_ID")
+    explain.add_argument("--config", help="settings file, for its calibrations (default ./mkdocs.yml)")
     explain.set_defaults(run=_cmd_explain)
 
     schema_cmd = sub.add_parser("schema", help="print the JSON Schema (draft 2020-12) of a sheet")
@@ -278,6 +285,7 @@ def build_parser() -> argparse.ArgumentParser:
     site.set_defaults(run=_cmd_site)
 
     calc_cli.add_parser(sub)
+    calibrate_cli.add_parser(sub)
     results_cli.add_parser(sub)
     return parser
 

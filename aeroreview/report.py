@@ -37,7 +37,8 @@ def finding_json(finding: Finding) -> dict:
         "severity": finding.severity, "message": verdict.message, "measured": verdict.measured,
         "limit": verdict.limit, "margin": verdict.margin, "estimate": estimate,
         "consequences": finding.consequences, "fix": finding.fix if finding.status not in ("pass", NOT_ASSESSED) else "",
-        "sources": [s.as_dict() for s in rule.sources], "missing": list(verdict.missing), "waiver": finding.waiver,
+        "sources": [s.as_dict() for s in finding.sources], "missing": list(verdict.missing), "waiver": finding.waiver,
+        "calibration": finding.calibration,
     }
 
 
@@ -139,6 +140,9 @@ def as_text(data: dict, color: bool) -> str:
                     f["waiver"]["status"] == "active" else ""
                 estimate = f"; {_fmt_counts((f['estimate']['cd_counts_low'], f['estimate']['cd_counts_high']))}" \
                     if f["estimate"] and f["estimate"]["cd_counts_high"] else ""
+                if f["calibration"]:
+                    estimate += (f" (team data: {escape(f['calibration']['label'])})" if f["calibration"]["applied"]
+                                 else f" (calibration not applied: {escape(f['calibration']['note'])})")
                 measured = f" ({escape(f['measured'])}, limit {escape(f['limit'])})" if f["measured"] and f["limit"] else ""
                 console.print(f"    [{STYLE[f['status']]}]{f['status']:<9}[/] {f['rule']}: {escape(f['message'])}"
                               f"{measured}{estimate}{waived}")

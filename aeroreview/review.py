@@ -23,9 +23,10 @@ from dataclasses import dataclass, field
 from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivities
+from aeroreview.calibration import recost, team_source
 from aeroreview.estimate import Estimate, Frame, claim_of, estimate, frame_for, score
 from aeroreview.problems import Problem
-from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Verdict
+from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Source, Verdict
 from aeroreview.rules.data import CLASS_CD, measured_cd
 from aeroreview.rules.stability import axle_figures
 from aeroreview.settings import Settings, status_rank
@@ -46,6 +47,13 @@ class Finding:
     waiver: dict | None = None  # {"status": "active"|"expired", "reason", "by", "expires"}
     consequences: dict | None = None
     fix: str = ""  # how to fix, with the thresholds the rule ran with
+    calibration: dict | None = None  # set when a team calibration re-costed the fix (aeroreview.calibration)
+
+    @property
+    def sources(self) -> tuple[Source, ...]:
+        """The rule's sources, and the team's data when a calibration re-costed the fix."""
+        team = team_source(self)
+        return self.rule.sources + ((team,) if team else ())
 
     @property
     def waived(self) -> bool:
@@ -113,14 +121,20 @@ def _status(level: str, severity: str) -> str:
     return STATUSES[max(1, STATUSES.index(severity) - 1)]
 
 
-def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str) -> Finding:
-    """One rule on one sheet; missing features give "not assessed", never an exception."""
+def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str, calibrated: dict | None = None) -> Finding:
+    """One rule on one sheet; missing features give "not assessed", never an exception.
+
+    ``calibrated`` (:func:`aeroreview.calibration.index`) re-costs the fix with the team's slope.
+    """
     missing = tuple(key for key in rule.needs if key not in sheet.features)
     if missing:
         verdict = Verdict(NOT_ASSESSED, f"not assessed: missing {', '.join(missing)}", missing=missing)
     else:
         verdict = rule.check(sheet, context)
-    return Finding(rule, _status(verdict.level, severity), severity, verdict, fix=rule.fix_for(context.thresholds))
+    finding = Finding(rule, _status(verdict.level, severity), severity, verdict, fix=rule.fix_for(context.thresholds))
+    if calibrated:
+        recost(finding, sheet, context, calibrated)
+    return finding
 
 
 def _vehicle(sheet: Sheet) -> tuple[Vehicle, dict, list[str]]:
@@ -196,7 +210,7 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     """Review one validated sheet."""
     today = today or _dt.date.today()
     air = settings.air()
-    findings = {rule.id: run_rule(rule, sheet, context, severity)
+    findings = {rule.id: run_rule(rule, sheet, context, severity, settings.calibrated)
                 for rule, context, severity in settings.rule_plan if rule.applies(sheet)}
     notices = _apply_waivers(sheet, findings, today)
 

@@ -13,6 +13,7 @@ site always agree::
           rules:
             rear.backlight-angle: {severity: warning, thresholds: {critical_low: 27 deg}}
             wheels.rear-strakes: {disabled: true}
+          calibrations: [studies/tessel/rear-doe.calibration.yaml]   # aeroreview calibrate
 
 Unknown keys, rule ids and threshold names are errors, located in the file.
 """
@@ -23,12 +24,13 @@ from dataclasses import dataclass, field
 from functools import cached_property, lru_cache
 from pathlib import Path
 
-from aeroreview import yamldoc
+from aeroreview import calibration, yamldoc
 from aeroreview.calc.air import Air, air_state
 from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.estimate import DEFAULT_MODEL, Model, model_from_mapping
 from aeroreview.names import suggest
-from aeroreview.problems import InputError, UsageError
+from aeroreview.paths import PathProblem, contained_file
+from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.rules import RULES_HINT, SEVERITIES, STATUSES, Context, Rule, all_rules
 from aeroreview.units import UnitProblem, from_si, to_si
 
@@ -62,6 +64,8 @@ class Settings:
     overrides: dict[str, RuleOverride] = field(default_factory=dict)
     estimates: Model = DEFAULT_MODEL  # floors and region budgets of the combination model
     max_attachment_bytes: int = ATTACHMENT_BYTES
+    calibrations: list[calibration.Calibration] = field(default_factory=list)
+    notices: list[Problem] = field(default_factory=list)  # doubts about the settings (unused calibrations)
     source: str = "built-in defaults"
 
     def air(self) -> Air:
@@ -83,6 +87,11 @@ class Settings:
                               air.kinematic_viscosity)
             plan.append((rule, context, override.severity or rule.severity))
         return plan
+
+    @cached_property
+    def calibrated(self) -> dict:
+        """The team's drag slope of each calibrated feature (:func:`aeroreview.calibration.index`)."""
+        return calibration.index(self.calibrations)
 
     @property
     def sheets_path(self) -> Path:
@@ -115,7 +124,8 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
 
     if not isinstance(section, dict):
         raise InputError([doc.problem(path, "the aeroreview settings must be a mapping", "write key: value lines")])
-    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "estimates", "max_attachment_mb")
+    allowed = ("sheets", "reference_speed", "air", "cycle", "fail_on", "rules", "estimates", "max_attachment_mb",
+               "calibrations")
     for key in section:
         if key not in allowed:
             error((key,), f"unknown setting '{key}'", suggest(str(key), allowed), key=True)
@@ -174,9 +184,32 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
     if "estimates" in section:
         settings.estimates = model_from_mapping(section["estimates"], lambda where, *rest, **kw:
                                                 error(("estimates", *where), *rest, **kw))
+    settings.calibrations = _calibrations(section.get("calibrations") or [], root, error, problems)
+    settings.notices = calibration.notices(settings.calibrations)
     if problems:
         raise InputError(problems)
     return settings
+
+
+CALIBRATION_SUFFIXES = (".yaml", ".yml")
+
+
+def _calibrations(names, root: Path, error, problems) -> list[calibration.Calibration]:
+    if not isinstance(names, list):
+        error(("calibrations",), "'calibrations' must be a list of files", "e.g. calibrations: [studies/doe.yaml]")
+        return []
+    out = []
+    for i, name in enumerate(names):
+        try:
+            target = contained_file(root, name, CALIBRATION_SUFFIXES, "calibration", "a calibration file (YAML)")
+        except PathProblem as problem:
+            error(("calibrations", i), str(problem), problem.hint)
+            continue
+        try:
+            out.append(calibration.load_calibration(target, name))
+        except InputError as failure:
+            problems.extend(failure.problems)
+    return out
 
 
 def _overrides(data, error) -> dict[str, RuleOverride]:

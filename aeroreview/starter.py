@@ -59,6 +59,7 @@ nav:
   - Fleet: fleet/index.md
   - Track record: fleet/track-record.md
   - Rules: rules/index.md
+  - Calibrations: calibrations/index.md
   - Feature reference: features.md
   - Methods:
       - methods/index.md

@@ -9,11 +9,12 @@ from conftest import ROOT
 
 
 def copy_knowledge_base(target: Path) -> Path:
-    """Copy mkdocs.yml, site_src/ and vehicles/ into ``target`` (never build inside the repository)."""
+    """Copy mkdocs.yml, site_src/, vehicles/ and studies/ into ``target`` (never build inside the repository)."""
     target.mkdir(parents=True, exist_ok=True)
     shutil.copy(ROOT / "mkdocs.yml", target / "mkdocs.yml")
     shutil.copytree(ROOT / "site_src", target / "site_src")
     shutil.copytree(ROOT / "vehicles", target / "vehicles")
+    shutil.copytree(ROOT / "studies", target / "studies")
     return target
 
 

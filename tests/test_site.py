@@ -155,3 +155,16 @@ def test_mkdocs_build_strict_from_the_repository_root(tmp_path):
     assert "WARNING" not in done.stderr
     assert (out / "fleet/tessel/r1.html").is_file()
     assert not (ROOT / "site_src" / "fleet").exists()  # nothing generated lands in site_src
+
+
+def test_calibration_page_shows_the_team_data_and_the_rules_link_to_it(demo_site):
+    page = unescape((demo_site / "calibrations/studies-tessel-rear-doe-calibration.html").read_text())
+    assert "INVENTED DEMO DATA" in page and "47 (1 dropped for missing values)" in page
+    for kind in ("calibration-slopes", "calibration-predicted", "calibration-residuals"):
+        assert re.search(rf'src="[./]*figures/{kind}-[0-9a-f]+\.svg"', page), kind
+    assert "differs in size" in page and "agrees" in page
+    rule = (demo_site / "rules/underbody.diffuser-angle.html").read_text()
+    assert "calibrations/studies-tessel-rear-doe-calibration.html" in rule and "Team data" in rule
+    revision = unescape((demo_site / "fleet/tessel/r1.html").read_text())
+    assert "calibrated on studies/tessel/rear-doe.calibration.yaml (47 rows, cross-validated R^2 0.97)" in revision
+    assert "(team data)" in revision

@@ -26,6 +26,7 @@ def tiny_kb(folder: Path) -> Path:
     folder.mkdir(parents=True, exist_ok=True)
     shutil.copy(ROOT / "mkdocs.yml", folder / "mkdocs.yml")
     shutil.copytree(ROOT / "site_src", folder / "site_src")
+    shutil.copytree(ROOT / "studies", folder / "studies")  # the calibrations mkdocs.yml names
     (folder / "vehicles/test-car").mkdir(parents=True)
     (folder / "vehicles/test-car/r1.yaml").write_text(MINIMAL, encoding="utf-8")
     return folder

@@ -254,6 +254,57 @@ def sections(data) -> bytes:
     return _svg(fig)
 
 
+def calibration_slopes(data) -> bytes:
+    """Fitted sensitivities with their 95 % intervals beside the library's values (one row each)."""
+    rows = data["slopes"]
+    fig, ax = _figure(6.4, 0.6 + 0.55 * len(rows))
+    for i, row in enumerate(rows):
+        low, high = row["ci95"]
+        ax.errorbar(row["fit"], i, xerr=[[row["fit"] - low], [high - row["fit"]]], fmt="o", color=OKABE_ITO["blue"],
+                    capsize=4, label="team data: fit and 95 % interval" if i == 0 else None)
+        if row["library"] is not None:
+            ax.plot(row["library"], i, marker="D", linestyle="none", color=OKABE_ITO["orange"],
+                    label="rule library" if i == 0 else None)
+        else:
+            ax.annotate("library silent", (high, i), xytext=(6, 0), textcoords="offset points", va="center", fontsize=8)
+    ax.axvline(0, color=OKABE_ITO["grey"], linewidth=0.8)
+    ax.set_yticks(range(len(rows)), [row["label"] for row in rows])
+    ax.invert_yaxis()
+    ax.set_xlabel("drag counts per unit of the parameter")
+    ax.legend(loc="lower center", bbox_to_anchor=(0.5, 1.0), ncol=2, fontsize=8, frameon=False)
+    return _svg(fig)
+
+
+def calibration_predicted(data) -> bytes:
+    """Cross-validated prediction against measurement, with the 1:1 line."""
+    fig, ax = _figure(4.6, 4.2)
+    measured = data["measured"]
+    markers = {"linear": ("o", OKABE_ITO["blue"]), "quadratic": ("^", OKABE_ITO["vermillion"])}
+    for name, predicted in data["predicted"].items():
+        marker, colour = markers[name]
+        ax.scatter(measured, predicted, marker=marker, s=14, color=colour, alpha=0.8, label=f"{name} surface")
+    ends = [min(measured + [v for p in data["predicted"].values() for v in p]),
+            max(measured + [v for p in data["predicted"].values() for v in p])]
+    ax.plot(ends, ends, color=OKABE_ITO["black"], linewidth=1, label="1:1")
+    ax.set_xlabel("measured [drag counts]")
+    ax.set_ylabel("cross-validated prediction [drag counts]")
+    ax.set_aspect("equal", adjustable="datalim")
+    ax.legend(loc="upper left", fontsize=8)
+    return _svg(fig)
+
+
+def calibration_residuals(data) -> bytes:
+    """Residuals of the linear fit against each parameter: curvature or a trend shows as a pattern."""
+    panels = data["residuals"]
+    fig, axes = plt.subplots(1, len(panels), figsize=(2.4 * len(panels) + 0.6, 2.6), sharey=True, squeeze=False)
+    for ax, panel in zip(axes[0], panels):
+        ax.scatter(panel["x"], panel["residual"], s=10, color=OKABE_ITO["blue"])
+        ax.axhline(0, color=OKABE_ITO["black"], linewidth=0.8)
+        ax.set_xlabel(panel["label"])
+    axes[0][0].set_ylabel("residual [drag counts]")
+    return _svg(fig)
+
+
 def history(data) -> bytes:
     """A coefficient history: the settled window shaded, each settled mean with its band."""
     keys = list(data["values"])[:2]
@@ -324,7 +375,9 @@ def buildup_diff(data) -> bytes:
 DRAWERS = {"drag-power": drag_power, "lift": lift, "energy": energy, "ahmed": ahmed, "waterfall": waterfall,
            "track-record": track_record,
            "zones": zones, "yaw": yaw, "trends": trends, "silhouette": silhouette, "sections": sections,
-           "history": history, "buildup": buildup, "buildup-diff": buildup_diff}
+           "history": history, "buildup": buildup, "buildup-diff": buildup_diff,
+           "calibration-slopes": calibration_slopes, "calibration-predicted": calibration_predicted,
+           "calibration-residuals": calibration_residuals}
 
 
 class FigureCache:

@@ -48,6 +48,7 @@ class AeroreviewConfig(base.Config):
     fail_on = c.Type(str, default="failure")
     rules = c.Type(dict, default={})
     max_attachment_mb = c.Optional(c.Type((int, float)))
+    calibrations = c.Type(list, default=[])
 
 
 def fleet_epoch(reviews) -> int:

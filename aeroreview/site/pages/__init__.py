@@ -2,7 +2,7 @@
 
 :func:`generate` returns every generated file (path inside the site's docs, and its text or
 bytes): the fleet, each vehicle, each revision, each pair of consecutive revisions, each
-rule, the feature reference, and the figures they show; and the attachments the plugin
+rule, each calibration, the feature reference, and the figures they show; and the attachments the plugin
 copies. One module per page kind writes its pages and only formats: what a page shows is
 computed by the engine (the review, and :mod:`aeroreview.digest`) and handed over typed.
 Sheet text reaches a page only through :func:`~aeroreview.site.pages.common.esc`.
@@ -16,7 +16,7 @@ from aeroreview import digest, track_record
 from aeroreview.review import Review
 from aeroreview.settings import Settings
 from aeroreview.site.figures import FigureCache
-from aeroreview.site.pages import diff, features, fleet, record, revision, rules, vehicle
+from aeroreview.site.pages import calibrations, diff, features, fleet, record, revision, rules, vehicle
 from aeroreview.site.pages.common import Output, Site, esc, heading
 
 __all__ = ["Site", "esc", "generate", "heading"]
@@ -57,5 +57,6 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
                            track_record.predicted_change(before, review, before.frame),
                            pair_of.get((vehicle_id, before.sheet.revision, review.sheet.revision)))
     rules.write(out, grouped)
+    calibrations.write(out)
     features.write(out)
     return out.site

@@ -120,7 +120,7 @@ def findings(review: Review) -> list[str]:
 
 
 def sources(f: Finding) -> str:
-    return "; ".join(f"{esc(s.citation)}{kind_suffix(s)}" for s in f.rule.sources)
+    return "; ".join(f"{esc(s.citation)}{kind_suffix(s)}" for s in f.sources)
 
 
 def waiver(f: Finding) -> str:

@@ -22,6 +22,24 @@ def write(out: Output, by_vehicle: dict[str, list[Review]]) -> None:
         out.page(f"rules/{rule.id}.md", rule_page(out, rule, by_vehicle))
 
 
+def sensitivity_section(out: Output, rule: Rule) -> list[str]:
+    """The rule's stated slope, and the team's calibration of it with a link to its page."""
+    sens = rule.sensitivity
+    if sens is None:
+        return []
+    lines = ["## Sensitivity", "", f"{sens.counts_per_unit:+g} drag counts per {sens.unit} of `{sens.feature}` "
+             f"between {sens.valid[0]:g} and {sens.valid[1]:g} {sens.unit} ({sens.source.citation}; "
+             f"*{sens.source.kind}*). The fix takes the feature to the `{sens.fix_to}` threshold.", ""]
+    calibrated = out.settings.calibrated.get(sens.feature)
+    if calibrated:
+        cal, slope = calibrated
+        lines += [f"**Team data**: {link(f'calibrations/{cal.slug}.md', esc(cal.label), 1)}: "
+                  f"{slope.counts_per_unit:+.3g} counts per {esc(slope.unit)} (95 % {slope.ci95[0]:+.3g} to "
+                  f"{slope.ci95[1]:+.3g}) over {slope.study_range[0]:g}-{slope.study_range[1]:g} {esc(slope.unit)}, "
+                  f"**{slope.agreement}**; the rule's estimates use it inside that range.", ""]
+    return lines
+
+
 def rule_page(out: Output, rule: Rule, by_vehicle: dict[str, list[Review]]) -> str:
     lines = [f"# {rule.id}", "", f"**{rule.title}** · zone {ZONES[rule.zone]} · default severity "
              f"{rule.severity} · needs {', '.join(f'`{k}`' for k in rule.needs) or 'results only'}"
@@ -40,6 +58,7 @@ def rule_page(out: Output, rule: Rule, by_vehicle: dict[str, list[Review]]) -> s
                   for t in rule.thresholds]
         lines.append("")
     lines += ["## Sources", ""] + [f"- {s.citation}{kind_suffix(s, '*')}" for s in rule.sources] + [""]
+    lines += sensitivity_section(out, rule)
     if rule.figure == "ahmed":
         lines += ["## Reference", "", out.figure("ahmed", ahmed_data(ahmed_curve(out.settings, None)),
                                                  "The Ahmed-body drag coefficient against slant angle, with the "

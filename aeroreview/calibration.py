@@ -1,0 +1,239 @@
+"""Calibration files: a study's fitted sensitivities with their provenance, and their use in reviews.
+
+``aeroreview calibrate STUDY --output FILE`` writes one (YAML); the settings name them
+(``calibrations: [FILE, ...]``). A rule whose :class:`~aeroreview.rules.Sensitivity` has a
+calibrated feature re-costs its fix with the team's slope: the fix moves the feature from
+its measured value to the rule's ``fix_to`` threshold, and the slope's 95 % interval times
+that move is the new drag-count range, with the source kind "team data". The team's data
+speak only inside the study's range: a measured value outside it keeps the library's
+estimate (and says why), and a target outside it is held at the range's edge.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, replace
+from pathlib import Path
+
+import yaml
+
+from aeroreview import catalogue, yamldoc
+from aeroreview.calibrate import as_json, fit_study
+from aeroreview.paths import PathProblem, contained_file
+from aeroreview.problems import InputError, Problem, UsageError
+from aeroreview.rules import Source, all_rules, counts_range
+from aeroreview.study import read_study
+from aeroreview.units import UnitProblem, to_si
+
+FORMAT = 1  # the calibration file's format version
+STUDY_SUFFIXES = (".csv", ".txt", ".dat", ".tsv")
+MAX_COMMENT_LINES = 5  # of the study's opening comments shown on its page
+HEADER = ("# aeroreview calibration: team sensitivities fitted from a parametric study by `aeroreview calibrate`.\n"
+          "# Regenerate it from the study rather than editing the numbers.\n")
+
+
+@dataclass(frozen=True)
+class CalibratedSlope:
+    column: str
+    feature: str
+    unit: str
+    counts_per_unit: float
+    ci95: tuple[float, float]
+    p_value: float
+    study_range: tuple[float, float]
+    library_counts_per_unit: float | None
+    library_rule: str | None
+    agreement: str
+
+
+@dataclass(frozen=True)
+class Calibration:
+    file: str  # as the settings name it
+    study_file: str  # relative to the calibration's folder, or the bare name
+    study_sha256: str
+    rows: int
+    dropped_rows: int
+    response: str
+    drag: bool
+    folds: int
+    models: dict  # {"linear": {"cv_r2", "cv_rmse_counts"}, ...}
+    date: str
+    slopes: tuple[CalibratedSlope, ...]
+
+    @property
+    def cv_r2(self) -> float:
+        return self.models["linear"]["cv_r2"]
+
+    @property
+    def slug(self) -> str:
+        """The calibration's page name on the site."""
+        stem = re.sub(r"\.(yaml|yml)$", "", self.file.lower())
+        return re.sub(r"[^a-z0-9]+", "-", stem).strip("-") or "calibration"
+
+    @property
+    def label(self) -> str:
+        """How a finding, a rule page and ``explain`` name the calibration."""
+        return f"calibrated on {self.file} ({self.rows} rows, cross-validated R^2 {self.cv_r2:.2f})"
+
+
+def calibration_yaml(fit, study_file: str, date: str) -> str:
+    """The calibration file of a :class:`~aeroreview.calibrate.Fit` (its JSON report is the body)."""
+    report = as_json(fit)
+    body = {
+        "calibration": FORMAT,
+        "study": {"file": study_file, "sha256": fit.study.sha256, "rows": report["rows"],
+                  "dropped_rows": report["dropped_rows"], "response": report["response"],
+                  "response_kind": "drag" if fit.study.drag else "lift"},
+        "model": "linear least squares (statsmodels OLS), 95 % intervals",
+        "cross_validation": {"folds": fit.folds, **report["models"]},
+        "date": date,
+        "sensitivities": [{k: v for k, v in s.items() if k != "quadratic_slope_at_centre"}
+                          for s in report["sensitivities"]],
+    }
+    return HEADER + yaml.safe_dump(body, sort_keys=False, default_flow_style=None, width=100)
+
+
+def load_calibration(path: Path, display: str) -> Calibration:
+    """Read and check a calibration file; every problem located in it."""
+    doc = yamldoc.load(path, display)
+    problems: list[Problem] = []
+
+    def need(data, key, kind, where=()):
+        value = data.get(key) if isinstance(data, dict) else None
+        ok = isinstance(value, kind) and not isinstance(value, bool) and \
+            (not isinstance(value, float) or math.isfinite(value))
+        if not ok:
+            problems.append(doc.problem(where + (key,) if isinstance(data, dict) and key in data else where,
+                                        f"calibration '{'.'.join(map(str, where + (key,)))}' is missing or not "
+                                        f"a {getattr(kind, '__name__', 'number')}",
+                                        "regenerate the file with `aeroreview calibrate ... --output`"))
+        return value if ok else None
+
+    data = doc.data if isinstance(doc.data, dict) else {}
+    if need(data, "calibration", int) not in (None, FORMAT):
+        problems.append(doc.problem(("calibration",), f"unknown calibration format {data['calibration']}",
+                                    f"this aeroreview reads format {FORMAT}"))
+    study = need(data, "study", dict) or {}
+    cross = need(data, "cross_validation", dict) or {}
+    linear = need(cross, "linear", dict, ("cross_validation",)) or {}
+    need(linear, "cv_r2", (int, float), ("cross_validation", "linear"))
+    slopes = []
+    for i, raw in enumerate(need(data, "sensitivities", list) or []):
+        where = ("sensitivities", i)
+        numbers = [need(raw, key, (int, float), where) for key in ("counts_per_unit", "p_value")]
+        ranges = [need(raw, key, list, where) for key in ("ci95", "study_range")]
+        texts = [need(raw, key, str, where) for key in ("column", "feature", "unit", "agreement")]
+        if None in numbers + ranges + texts:
+            continue
+        if any(len(r) != 2 or not all(isinstance(v, (int, float)) and math.isfinite(v) for v in r) or r[0] > r[1]
+               for r in ranges):
+            problems.append(doc.problem(where, "ci95 and study_range must be [low, high] numbers", "regenerate the file"))
+            continue
+        feature = catalogue.BY_KEY.get(texts[1])
+        try:
+            if feature is None:
+                raise UnitProblem(f"unknown feature '{texts[1]}'", "regenerate the file")
+            to_si(f"1 {texts[2]}", feature.unit)
+        except UnitProblem as problem:
+            problems.append(doc.problem(where + ("feature",), str(problem), problem.hint))
+            continue
+        slopes.append(CalibratedSlope(texts[0], texts[1], texts[2], float(numbers[0]), tuple(ranges[0]),
+                                      float(numbers[1]), tuple(ranges[1]), raw.get("library_counts_per_unit"),
+                                      raw.get("library_rule"), texts[3]))
+    fields = [need(study, key, kind, ("study",)) for key, kind in
+              (("file", str), ("sha256", str), ("rows", int), ("dropped_rows", int), ("response", str))]
+    if problems:
+        raise InputError(problems)
+    return Calibration(display, *fields[:5], study.get("response_kind", "drag") == "drag",
+                       int(cross.get("folds", 0)), {k: v for k, v in cross.items() if isinstance(v, dict)},
+                       str(data.get("date", "")), tuple(slopes))
+
+
+def index(calibrations: list[Calibration]) -> dict[str, tuple[Calibration, CalibratedSlope]]:
+    """The drag slope of each feature (a later calibration of a feature replaces an earlier one)."""
+    return {slope.feature: (cal, slope) for cal in calibrations if cal.drag for slope in cal.slopes}
+
+
+def notices(calibrations: list[Calibration]) -> list[Problem]:
+    """What a calibration cannot change: lift responses, features no rule costs, features calibrated twice."""
+    used = {r.sensitivity.feature: r.id for r in all_rules().values() if r.sensitivity}
+    out, seen = [], {}
+    for cal in calibrations:
+        if not cal.drag:
+            out.append(Problem(cal.file, 1, 1, f"the response {cal.response} is not drag: no rule estimate uses it",
+                               "calibrate a drag response (Cd or counts)", "warning"))
+            continue
+        for slope in cal.slopes:
+            if slope.feature not in used:
+                out.append(Problem(cal.file, 1, 1, f"no rule states a sensitivity for {slope.feature} "
+                                                   f"(column '{slope.column}'): its calibration changes no estimate",
+                                   "see `aeroreview rules --format json` for the rules' sensitivities", "warning"))
+            elif slope.feature in seen:
+                out.append(Problem(cal.file, 1, 1, f"{slope.feature} is also calibrated in {seen[slope.feature]}; "
+                                                   "this file's slope is used", "name each feature's study once",
+                                   "warning"))
+            seen[slope.feature] = cal.file
+    return out
+
+
+def recost(finding, sheet, context, calibrated: dict[str, tuple[Calibration, CalibratedSlope]]) -> None:
+    """Re-cost a finding's fix with the team's slope, when its rule's feature is calibrated."""
+    sens = finding.rule.sensitivity
+    if sens is None or sens.feature not in calibrated or not finding.counts:
+        return
+    cal, slope = calibrated[sens.feature]
+    canonical = catalogue.BY_KEY[sens.feature].unit
+    size = to_si(f"1 {slope.unit}", canonical) - to_si(f"0 {slope.unit}", canonical)
+    measured = sheet.get(sens.feature) / size
+    low, high = slope.study_range
+    finding.calibration = {"file": cal.file, "label": cal.label, "feature": slope.feature, "unit": slope.unit,
+                           "counts_per_unit": slope.counts_per_unit, "ci95": list(slope.ci95),
+                           "library_counts": list(finding.verdict.counts), "applied": low <= measured <= high}
+    if not finding.calibration["applied"]:
+        finding.calibration["note"] = (f"measured {measured:g} {slope.unit} lies outside the study's {low:g}-{high:g} "
+                                       f"{slope.unit}: the library estimate stands")
+        return
+    target = min(max(context[sens.fix_to] / size, low), high)
+    ends = sorted(bound * (measured - target) for bound in slope.ci95)
+    finding.verdict = replace(finding.verdict, counts=counts_range(*ends))
+
+
+def team_source(finding) -> Source | None:
+    """The "team data" source of a re-costed finding."""
+    calibration = getattr(finding, "calibration", None)
+    if not calibration or not calibration["applied"]:
+        return None
+    return Source(f"{calibration['label']}: {calibration['counts_per_unit']:+.3g} counts per {calibration['unit']} "
+                  f"(95 % {calibration['ci95'][0]:+.3g} to {calibration['ci95'][1]:+.3g})", "team data")
+
+
+def _rounded(values) -> list[float]:
+    return [float(f"{v:.5g}") for v in values]
+
+
+def page_data(cal: Calibration, root: Path) -> dict:
+    """What a calibration's page shows, computed once: the slopes beside the library's, and,
+    from the study refitted (read through the contained-path gate), the cross-validated
+    predictions and the linear fit's residuals against each parameter."""
+    data = {"slopes": [{"label": f"{s.column} [per {s.unit}]", "fit": s.counts_per_unit, "ci95": list(s.ci95),
+                        "library": s.library_counts_per_unit} for s in cal.slopes], "note": "", "comments": []}
+    try:
+        folder = (root / cal.file).parent
+        path = contained_file(folder, cal.study_file, STUDY_SUFFIXES, "study", "a study table")
+        study = read_study(path, [f"{s.column}={s.feature}:{s.unit}" for s in cal.slopes], cal.response,
+                           display=cal.study_file)
+        fit = fit_study(study, "both" if "quadratic" in cal.models else "linear", cal.folds or 5)
+    except (PathProblem, InputError, UsageError) as problem:
+        data["note"] = f"the study cannot be refitted for the figures: {problem}"
+        return data
+    if study.sha256 != cal.study_sha256:
+        data["note"] = ("the study file has changed since this calibration was fitted (its sha256 differs): the "
+                        "figures show the current file; refit the calibration")
+    lines = path.read_text(encoding="utf-8-sig").splitlines()
+    data["comments"] = [line.lstrip("# ")[:300] for line in lines[:MAX_COMMENT_LINES] if line.startswith("#")]
+    data["measured"] = _rounded(study.y)
+    data["predicted"] = {name: _rounded(surface.predicted) for name, surface in fit.surfaces.items()}
+    data["residuals"] = [{"label": f"{m.column} [{m.unit}]", "x": _rounded(study.x[:, j]),
+                          "residual": _rounded(fit.residuals)} for j, m in enumerate(study.mappings)]
+    return data
