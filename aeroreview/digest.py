@@ -23,6 +23,9 @@ from aeroreview.baseline import leading_number
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.references import AHMED_ATTACHED, AHMED_SEPARATED, AHMED_SOURCE
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
+from aeroreview.problems import InputError
+from aeroreview.results import evidence
+from aeroreview.results.evidence import Buildup, BuildupChange, HistoryFigure
 from aeroreview.review import Finding, Review
 from aeroreview.rules import NOT_ASSESSED, Context, all_rules
 from aeroreview.rules.stability import axle_figures
@@ -91,6 +94,9 @@ class RevisionFigures:
     yaw: YawSweep | None
     geometry: dict | None  # silhouette and section data of the measured surface
     zone_status: dict[str, str] = field(default_factory=dict)  # worst assessed status per zone
+    history: HistoryFigure | None = None  # the first force history a result names
+    buildup: Buildup | None = None  # the first build-up along x a result names, with its zones
+    result_problems: list[str] = field(default_factory=list)  # result files that could not be drawn
 
 
 @dataclass(frozen=True)
@@ -131,6 +137,7 @@ class Changes:
     within_status: list[WithinStatus] = field(default_factory=list)
     waivers: list[WaiverChange] = field(default_factory=list)
     geometry: tuple[str, str] | None = None  # surface file before and after ("none" when absent)
+    buildup: BuildupChange | None = None  # both revisions' drag build-ups and the change by zone
 
 
 def critical_region(settings: Settings) -> tuple[float, float]:
@@ -218,13 +225,51 @@ def revision_figures(review: Review, settings: Settings, geometry_cache: Path | 
     speeds, top = _speeds(review)
     sheet = review.sheet
     ahmed = ahmed_curve(settings, sheet.get("rear.backlight_angle")) if sheet.has("rear.backlight_angle") else None
+    geometry = measured_geometry(sheet, geometry_cache) if sheet.geometry else None
+    problems: list[str] = []
     return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
-                           yaw_sweep(review, settings.reference_speed),
-                           measured_geometry(sheet, geometry_cache) if sheet.geometry else None, zone_status(review))
+                           yaw_sweep(review, settings.reference_speed), geometry, zone_status(review),
+                           _drawn(problems, result_history, sheet), _drawn(problems, result_buildup, sheet, geometry),
+                           problems)
 
 
-def changes(before: Review, after: Review) -> Changes:
-    """Features whose shown value changed, and findings that appeared, resolved, got worse or better."""
+def result_file(sheet, role: str) -> tuple[Path, str] | None:
+    """The first file of ``role`` (history, buildup) a sheet's results name, and that result's label."""
+    for result in sheet.results:
+        for name, _sha256, kind in result.files:
+            if kind == role:
+                return Path(sheet.path).parent / name, result.label or name
+    return None
+
+
+def result_history(sheet) -> HistoryFigure | None:
+    found = result_file(sheet, "history")
+    return evidence.history_figure(found[0], f"{sheet.revision}, {found[1]}") if found else None
+
+
+def result_buildup(sheet, geometry: dict | None) -> Buildup | None:
+    """The build-up with its zones: from the measured centreline when there is one, else the axles."""
+    found = result_file(sheet, "buildup")
+    if not found:
+        return None
+    silhouette = geometry["silhouette"] if geometry else None
+    front, wheelbase = sheet.get("dimensions.front_overhang"), sheet.get("dimensions.wheelbase")
+    return evidence.buildup(found[0], sheet.revision,
+                            lambda length: evidence.zones_along_x(length, silhouette, front, wheelbase))
+
+
+def _drawn(problems: list[str], read, *args):
+    """A result file read for a figure; a file that cannot be read is reported on the page, not fatal."""
+    try:
+        return read(*args)
+    except (InputError, OSError) as problem:
+        problems.append(str(problem))
+        return None
+
+
+def changes(before: Review, after: Review, buildups: tuple[Buildup | None, Buildup | None] = (None, None)) -> Changes:
+    """Features whose shown value changed, findings that appeared, resolved, got worse or better, and
+    (given both revisions' build-ups) where along the body the drag changed."""
     features = []
     for item in catalogue.FEATURES:
         old, new = before.sheet.features.get(item.key), after.sheet.features.get(item.key)
@@ -251,7 +296,8 @@ def changes(before: Review, after: Review) -> Changes:
     waivers = [WaiverChange(rule, "added", reason) for rule, reason in sorted(waived[1] - waived[0])]
     waivers += [WaiverChange(rule, "removed", reason) for rule, reason in sorted(waived[0] - waived[1])]
     files = [r.sheet.geometry.file if r.sheet.geometry else "none" for r in (before, after)]
-    return Changes(features, groups, within, waivers, tuple(files) if files[0] != files[1] else None)
+    change = evidence.buildup_change(*buildups) if all(buildups) else None
+    return Changes(features, groups, within, waivers, tuple(files) if files[0] != files[1] else None, change)
 
 
 def _direction(prior: Finding, now: Finding) -> str:

@@ -158,6 +158,25 @@ def test_demo_site_in_the_browser(base, browser):
 
 
 
+def test_diff_page_shows_the_build_up_change_by_zone(served, browser):
+    """Tessel r1 -> r2 (invented demo): both build-up curves and their difference are drawn, and the
+    change by zone is a table with a row per zone along x and the total."""
+    page = browser.new_page(viewport={"width": 1280, "height": 900})
+    page.goto(served + "/fleet/tessel/r1-to-r2.html")
+    page.wait_for_load_state("networkidle")
+    drawn = page.evaluate("Array.from(document.images).filter(i => i.alt.startsWith('Cumulative drag along x'))"
+                          ".map(i => [i.complete, i.naturalWidth])")
+    assert drawn and all(complete and width > 0 for complete, width in drawn), drawn
+    zones = page.locator("article table:has(th:text('Zone')) tbody tr")
+    assert zones.count() >= 2
+    assert zones.last.inner_text().startswith("All")
+    page.goto(served + "/fleet/tessel/r2.html")
+    page.wait_for_load_state("networkidle")
+    solver = page.evaluate("Array.from(document.images).filter(i => /^(Force history|Cumulative drag and lift)/"
+                           ".test(i.alt)).map(i => i.complete && i.naturalWidth > 0)")
+    assert solver == [True, True], solver
+    page.close()
+
 
 # Every table sits inside its container; keys (zone.name) and rule ids keep to one line.
 LAYOUT = """() => {

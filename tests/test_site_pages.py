@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import re
+import shutil
 
 import pytest
 
@@ -22,7 +23,7 @@ def test_lift_figure_and_key_numbers_show_the_same_front_lift_with_a_reference_a
     """
     text = (VEHICLES / "tessel/r2.yaml").read_text(encoding="utf-8").split("\ngeometry:")[0]
     text = text.replace("    cl_rear: 0.04\n", "    cl_rear: 0.04\n    reference_area: 3.36 m^2\n", 1)
-    (tmp_path / "tessel").mkdir()
+    shutil.copytree(VEHICLES / "tessel/cfd", tmp_path / "tessel/cfd")  # the result files the sheet names
     (tmp_path / "tessel/r2.yaml").write_text(text, encoding="utf-8")
     settings = Settings(root=ROOT)
     review = review_sheet(load_fleet([tmp_path]).sheets[0], settings)
@@ -57,3 +58,26 @@ def test_a_source_kind_is_shown_once_after_its_citation(demo):
         for mark in ("", "*"):
             repeated = f"{kind}{mark}) ({mark}{kind}"
             assert not [path for path, text in pages.items() if repeated in text], repeated
+
+
+def test_revision_and_diff_pages_draw_the_solver_files(demo):
+    """The Tessel's results name a force history and a build-up (vehicles/tessel/cfd/, invented): the
+    revision page draws both, the r1 -> r2 page overlays the build-ups and tabulates the change by zone.
+
+    Reference: the zones tile the body, so their changes add up to the change of the total
+    (a telescoping sum); the total is r2's Cd 0.232 minus r1's 0.301 as the surface files
+    integrate (make_results.py), -69 counts, one count being 0.001 (SAE J1594 usage).
+    """
+    page = demo.files["fleet/tessel/r2.md"]
+    assert re.search(r"!\[Force history of r2, [^]]*settled from[^]]*\]\(\.\./\.\./figures/[^)]+\.svg\)", page)
+    assert re.search(r"!\[Cumulative drag and lift from the nose rearward for r2[^]]*zones along x: front", page)
+    diff = demo.files["fleet/tessel/r1-to-r2.md"]
+    assert re.search(r"!\[Cumulative drag along x of r1 and r2[^]]*\]\(\.\./\.\./figures/[^)]+\.svg\)", diff)
+    rows = re.findall(r"^\| (front|windshield|roof and rear) \| (-?[\d.]+) \| (-?[\d.]+) \| ([+-][\d.]+) \|$", diff,
+                      re.MULTILINE)
+    assert [r[0] for r in rows] == ["front", "windshield", "roof and rear"]
+    total = float(re.search(r"^\| All \| \| \| ([+-][\d.]+) \|$", diff, re.MULTILINE).group(1))
+    assert total == pytest.approx(-69.0, abs=0.1)
+    assert sum(float(r[3]) for r in rows) == pytest.approx(total, abs=0.2)  # each row rounded to 0.1
+    for name in re.findall(r"\(\.\./\.\./figures/([^)]+\.svg)\)", diff):
+        assert f"figures/{name}" in demo.files

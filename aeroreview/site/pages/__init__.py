@@ -44,13 +44,16 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
     pair_of = {(p.vehicle, p.parent, p.child): p for p in found}
     for vehicle_id, revisions in grouped.items():
         vehicle.write(out, vehicle_id, revisions)
+        drawn = {}
         for review in revisions:
-            revision.write(out, review, digest.revision_figures(review, settings, geometry_cache))
+            drawn[review.sheet.revision] = digest.revision_figures(review, settings, geometry_cache)
+            revision.write(out, review, drawn[review.sheet.revision])
         known = {r.sheet.revision: r for r in revisions}
         for review in revisions:
             if review.sheet.parent in known:
                 before = known[review.sheet.parent]
-                diff.write(out, before, review, digest.changes(before, review),
+                buildups = (drawn[before.sheet.revision].buildup, drawn[review.sheet.revision].buildup)
+                diff.write(out, before, review, digest.changes(before, review, buildups),
                            track_record.predicted_change(before, review, before.frame),
                            pair_of.get((vehicle_id, before.sheet.revision, review.sheet.revision)))
     rules.write(out, grouped)

@@ -2,7 +2,10 @@
 
 from __future__ import annotations
 
+from dataclasses import asdict
+
 from aeroreview.digest import Changes
+from aeroreview.results.evidence import BuildupChange
 from aeroreview.review import Review
 from aeroreview.track_record import Pair
 from aeroreview.site.pages.common import Output, badge, esc, heading, link, recoverable_text, score_text
@@ -20,6 +23,8 @@ def write(out: Output, before: Review, after: Review, changes: Changes, predicte
         lines += ["", f"Surface file changed: {esc(changes.geometry[0])} → {esc(changes.geometry[1])}."]
     lines += ["", "## Results", "", "| | Before | After | Change |", "|---|---|---|---|"]
     lines += [f"| {label} | {was} | {now} | {delta} |" for label, was, now, delta in _numbers(before, after)]
+    if changes.buildup:
+        lines += buildup(out, changes.buildup, a.revision, b.revision)
     lines += [""]
     lines += prediction(before, predicted, pair)
     lines += ["## Findings", ""]
@@ -36,6 +41,18 @@ def write(out: Output, before: Review, after: Review, changes: Changes, predicte
     lines += [f"- {c.change}: {link(f'rules/{c.rule}.md', c.rule, 2)} ({esc(c.reason)})" for c in changes.waivers] \
         or ["No waiver added or removed."]
     out.page(f"fleet/{b.vehicle_id}/{a.revision}-to-{b.revision}.md", "\n".join(lines) + "\n")
+
+
+def buildup(out: Output, change: BuildupChange, before: str, after: str) -> list[str]:
+    """Both revisions' drag build-ups overlaid, their difference, and the change zone by zone."""
+    zones = ", ".join(f"{z.title} {z.change_counts:+.1f}" for z in change.by_zone)
+    alt = (f"Cumulative drag along x of {before} and {after} and their difference: {change.total_counts:+.1f} "
+           f"counts in all; by zone, in counts: {zones}")
+    lines = ["", "## Drag build-up along the body", "", out.figure("buildup-diff", asdict(change), alt, 2), "",
+             f"| Zone | {esc(before)} [counts] | {esc(after)} [counts] | Change [counts] |", "|---|---|---|---|"]
+    lines += [f"| {esc(z.title)} | {z.before_counts:.1f} | {z.after_counts:.1f} | {z.change_counts:+.1f} |"
+              for z in change.by_zone]
+    return lines + [f"| All | | | {change.total_counts:+.1f} |"]
 
 
 def _numbers(before: Review, after: Review) -> list[tuple[str, str, str, str]]:

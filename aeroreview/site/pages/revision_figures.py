@@ -9,6 +9,8 @@ from __future__ import annotations
 from dataclasses import asdict
 
 from aeroreview.digest import AhmedCurve, RevisionFigures, YawSweep
+from aeroreview.results.evidence import Buildup, HistoryFigure
+from aeroreview.results.history import COUNT
 from aeroreview.review import Review
 from aeroreview.rules import ZONES
 from aeroreview.site.pages.common import Output, esc
@@ -65,7 +67,32 @@ def section(out: Output, review: Review, figures: RevisionFigures) -> list[str]:
         lines += yaw(out, figures.yaw)
     if figures.geometry:
         lines += geometry(out, review, figures)
-    return lines
+    return lines + solver_files(out, figures)
+
+
+def solver_files(out: Output, figures: RevisionFigures) -> list[str]:
+    """The force history and the build-up along x that the sheet's results were read from."""
+    if not (figures.history or figures.buildup or figures.result_problems):
+        return []
+    lines = ["### From the solver's files", ""]
+    if figures.history:
+        lines += [out.figure("history", asdict(figures.history), history_alt(figures.history), 2), ""]
+    if figures.buildup:
+        lines += [out.figure("buildup", asdict(figures.buildup), buildup_alt(figures.buildup), 2), ""]
+    lines += [f"- Not drawn: {esc(problem)}" for problem in figures.result_problems]
+    return lines + ([""] if figures.result_problems else [])
+
+
+def history_alt(h: HistoryFigure) -> str:
+    means = ", ".join(f"{key} {h.mean[key]:.4f} +- {h.band[key] / COUNT:.2f} counts" for key in list(h.values)[:2])
+    return (f"Force history of {h.label}: settled from {h.step_name} {h.settled_from:g} to {h.settled_to:g}, "
+            f"mean with its 2-standard-error band {means}; {h.verdict}")
+
+
+def buildup_alt(b: Buildup) -> str:
+    zones = ", ".join(f"{z.title} {z.start:.2f} to {z.end:.2f} m" for z in b.zones)
+    return (f"Cumulative drag and lift from the nose rearward for {b.label}: Cd {b.cd[-1]:.3f} and "
+            f"Cl {b.cl[-1]:+.3f} at the tail; zones along x: {zones}")
 
 
 def yaw(out: Output, sweep: YawSweep) -> list[str]:
