@@ -19,7 +19,7 @@ from pathlib import Path
 import yaml
 
 from aeroreview import catalogue, yamldoc
-from aeroreview.calibrate import as_json, fit_study
+from aeroreview.calibrate import Slope, as_json, fit_study
 from aeroreview.paths import PathProblem, contained_file
 from aeroreview.problems import InputError, Problem, UsageError
 from aeroreview.rules import Source, all_rules, counts_range
@@ -34,20 +34,6 @@ HEADER = ("# aeroreview calibration: team sensitivities fitted from a parametric
 
 
 @dataclass(frozen=True)
-class CalibratedSlope:
-    column: str
-    feature: str
-    unit: str
-    counts_per_unit: float
-    ci95: tuple[float, float]
-    p_value: float
-    study_range: tuple[float, float]
-    library_counts_per_unit: float | None
-    library_rule: str | None
-    agreement: str
-
-
-@dataclass(frozen=True)
 class Calibration:
     file: str  # as the settings name it
     study_file: str  # relative to the calibration's folder, or the bare name
@@ -59,7 +45,7 @@ class Calibration:
     folds: int
     models: dict  # {"linear": {"cv_r2", "cv_rmse_counts"}, ...}
     date: str
-    slopes: tuple[CalibratedSlope, ...]
+    slopes: tuple[Slope, ...]
 
     @property
     def cv_r2(self) -> float:
@@ -138,7 +124,7 @@ def load_calibration(path: Path, display: str) -> Calibration:
         except UnitProblem as problem:
             problems.append(doc.problem(where + ("feature",), str(problem), problem.hint))
             continue
-        slopes.append(CalibratedSlope(texts[0], texts[1], texts[2], float(numbers[0]), tuple(ranges[0]),
+        slopes.append(Slope(texts[0], texts[1], texts[2], float(numbers[0]), tuple(ranges[0]),
                                       float(numbers[1]), tuple(ranges[1]), raw.get("library_counts_per_unit"),
                                       raw.get("library_rule"), texts[3]))
     fields = [need(study, key, kind, ("study",)) for key, kind in
@@ -150,7 +136,7 @@ def load_calibration(path: Path, display: str) -> Calibration:
                        str(data.get("date", "")), tuple(slopes))
 
 
-def index(calibrations: list[Calibration]) -> dict[str, tuple[Calibration, CalibratedSlope]]:
+def index(calibrations: list[Calibration]) -> dict[str, tuple[Calibration, Slope]]:
     """The drag slope of each feature (a later calibration of a feature replaces an earlier one)."""
     return {slope.feature: (cal, slope) for cal in calibrations if cal.drag for slope in cal.slopes}
 
@@ -177,7 +163,7 @@ def notices(calibrations: list[Calibration]) -> list[Problem]:
     return out
 
 
-def recost(finding, sheet, context, calibrated: dict[str, tuple[Calibration, CalibratedSlope]]) -> None:
+def recost(finding, sheet, context, calibrated: dict[str, tuple[Calibration, Slope]]) -> None:
     """Re-cost a finding's fix with the team's slope, when its rule's feature is calibrated."""
     sens = finding.rule.sensitivity
     if sens is None or sens.feature not in calibrated or not finding.counts:
