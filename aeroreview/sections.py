@@ -21,9 +21,10 @@ MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
 FILE_NAME = r"^(?!/)(?!.*\.\.)[^\\:]+$"  # relative, no "..", no drive or backslash (safe_file checks more)
 MAX_GROUND = 1e6  # |ground| in file units: 1 km in mm, beyond any surface file (common practice)
 RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
-COEFFICIENT = (-3.0, 3.0)  # road-vehicle lift coefficients lie well inside (from memory: Hucho 1998, ch. 5)
+COEFFICIENT = (-3.0, 3.0)  # road-vehicle force and moment coefficients lie well inside (from memory: Hucho
+#                             1998, chapter not checked)
 DRAG_COEFFICIENT = (0.05, 2.0)  # below any road body; above a flat plate normal to the flow, about 1.2
-#                                 (from memory: Hoerner, Fluid-Dynamic Drag, 1965, ch. 3)
+#                                 (from memory: Hoerner, Fluid-Dynamic Drag, 1965, chapter not checked)
 
 
 @dataclass(frozen=True)
