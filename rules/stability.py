@@ -171,11 +171,16 @@ def lift_balance(sheet, ctx):
     return passed("the lift balance is front-biased or even", measured=measured, limit=f"<= {ctx['minor_excess']:+.2f}")
 
 
-def sweep_at(sheet, field: str, angle: float) -> tuple[float, float] | None:
-    """``field`` of the yaw sweeps (|yaw| folded) interpolated at 0 and ``angle`` [deg]; None if not covered."""
+def sweep_at(sheet, field: str, angle: float, odd: bool = False) -> tuple[float, float] | None:
+    """``field`` of the yaw sweeps (|yaw| folded) interpolated at 0 and ``angle`` [deg]; None if not covered.
+
+    ``odd``: the field changes sign with yaw (side force, yawing moment), so it is folded with
+    the sign of yaw; otherwise (drag, lift) +yaw and -yaw are averaged as they are.
+    """
     by_angle: dict[float, list[float]] = {}
     for point in (p for r in sheet.results for p in r.yaw_sweep if getattr(p, field) is not None):
-        by_angle.setdefault(round(abs(math.degrees(point.yaw)), 6), []).append(getattr(point, field))
+        sign = -1.0 if odd and point.yaw < 0 else 1.0
+        by_angle.setdefault(round(abs(math.degrees(point.yaw)), 6), []).append(sign * getattr(point, field))
     if not by_angle or min(by_angle) > 0 or max(by_angle) < angle:
         return None
     angles = sorted(by_angle)
@@ -370,3 +375,66 @@ def wind_averaged_drag(sheet, ctx):
                      limit=f"<= {ctx['ratio']:.2f}", margin=f"{ratio - ctx['ratio']:+.3f}")
     return passed("the wind-averaged drag is close to the zero-yaw figure", measured=measured,
                   limit=f"<= {ctx['ratio']:.2f}")
+
+
+YAW_MOMENT_SOURCE = Source("yawing moment of passenger cars (SAE J1594 coefficient, on the frontal area and the "
+                           "wheelbase): a rise of about 0.04-0.06 from 0 to 10 deg of yaw is usual, more points at a "
+                           "crosswind-sensitive body; recalled, not checked. Checked on an online course summary of "
+                           "crosswind aerodynamics: it grows almost linearly with yaw up to about 20 deg; rounded hood "
+                           "edges and A-pillars lower it, a rounder nose in plan view and rounded rear side edges raise "
+                           "it", "from memory")
+CROSSWIND = Source("Hucho and Emmelmann, 'Theoretical prediction of the aerodynamic derivatives of a vehicle in cross "
+                   "wind gusts', in Automotive Aerodynamics, SAE PT-78-16 (1978) 129-137 (title, authors, year, venue "
+                   "and summary checked on a library record): the side force and yawing moment derivatives govern a "
+                   "car's crosswind sensitivity", "published")
+
+
+@rule("stability.yaw-moment", "Growth of the yawing moment with yaw", "warning", needs=(),
+      thresholds=(Threshold("moderate", "0.06", "", "rise of cym from 0 to 10 deg of yaw that needs attention",
+                            YAW_MOMENT_SOURCE),
+                  Threshold("steep", "0.08", "", "rise of cym from 0 to 10 deg of yaw that is too steep",
+                            YAW_MOMENT_SOURCE)),
+      sources=(YAW_MOMENT_SOURCE, CROSSWIND, Source("effect: none on drag or axle lift; a crosswind handling risk, so "
+                                                    "no counts; common practice", "common practice")))
+def yaw_moment(sheet, ctx):
+    """
+    What it checks: how much the yawing moment coefficient (cym, SAE J1594: on the frontal
+    area and the wheelbase, about mid-wheelbase on the ground) grows from 0 to 10 deg of yaw
+    in the sheet's yaw sweep, its sign folded with the sign of yaw.
+
+    Why it matters: a gust or an overtaking truck puts the car at yaw; the yawing moment then
+    turns it, and the steeper the moment grows with yaw, the harder the driver must correct.
+    A body that is sensitive here feels nervous in crosswind and on exposed bridges, whatever
+    its drag.
+
+    How to fix: take side force off the nose or put it on the tail: rounded hood side edges
+    and A-pillars carry less side force at the front, sharp rear side edges more at the rear
+    (a rounder nose in plan view and rounded rear side edges do the opposite, so a fix for drag
+    at yaw can cost here); keep the rise below {moderate} per 10 deg. Confirm crosswind
+    behaviour on a proving ground, in a crosswind facility or on gusty days.
+
+    Known limits: needs a sweep with cym from 0 to at least 10 deg (interpolated between
+    measured angles); quasi-steady, while gusts are transient; how much moment a car tolerates
+    depends on its tyres, steering and mass, so the limits are a review aid, not a criterion.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04,
+            yaw_sweep: [{yaw: 0 deg, cd: 0.25, cym: 0.0}, {yaw: 5 deg, cd: 0.25, cym: 0.045}, {yaw: 10 deg, cd: 0.25,
+            cym: 0.09}]}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04, yaw_sweep:
+            [{yaw: 0 deg, cd: 0.25, cym: 0.0}, {yaw: 10 deg, cd: 0.25, cym: 0.045}, {yaw: -10 deg, cd: 0.25,
+            cym: -0.045}]}]}
+    """
+    found = sweep_at(sheet, "cym", 10, odd=True)
+    if found is None:
+        return not_assessed("needs a yaw sweep with the yawing moment from 0 to at least 10 deg",
+                            missing=("results[].yaw_sweep[].cym",))
+    growth = abs(found[1] - found[0])
+    measured = f"cym rises by {growth:.3f} from 0 to 10 deg"
+    if growth > ctx["steep"]:
+        return major("the yawing moment grows steeply with yaw", measured=measured, limit=f"<= {ctx['steep']:.2f}",
+                     margin=f"{growth - ctx['steep']:+.3f}")
+    if growth > ctx["moderate"]:
+        return minor("the yawing moment grows noticeably with yaw", measured=measured,
+                     limit=f"<= {ctx['moderate']:.2f}", margin=f"{growth - ctx['moderate']:+.3f}")
+    return passed("the yawing moment grows moderately with yaw", measured=measured, limit=f"<= {ctx['moderate']:.2f}")
