@@ -18,6 +18,7 @@ import matplotlib.pyplot as plt  # noqa: E402
 
 from aeroreview.site.charts import OKABE_ITO, STATUS_COLOURS  # noqa: E402
 from aeroreview.site.figures import STYLE  # noqa: E402
+from aeroreview.site.svgchart import text_width  # noqa: E402
 
 def _svg(figure) -> bytes:
     buffer = io.BytesIO()
@@ -81,7 +82,9 @@ def silhouette(data) -> bytes:
 
 
 def sections(data) -> bytes:
-    fig, ax = _figure(6.4, 3.4, left=0.65, bottom=0.5, right=1.9, top=0.35)
+    """Plan-view sections; the legend on the right, its margin sized from the longest label."""
+    legend = max((text_width(s["label"], 7) for s in data["sections"]), default=0) / 72 + 0.6  # pt to in, handle
+    fig, ax = _figure(6.4 + legend, 3.4, left=0.65, bottom=0.5, right=legend + 0.1, top=0.35)
     colours = [OKABE_ITO[c] for c in ("blue", "orange", "green", "vermillion", "purple", "sky", "black", "grey")]
     for colour, section in zip(colours * 4, data["sections"]):
         for key in ("upper", "lower"):
