@@ -16,7 +16,7 @@ from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue
+from aeroreview import catalogue, sheetsurface
 from aeroreview.baseline import leading_number
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.references import AHMED_ATTACHED, AHMED_SEPARATED, AHMED_SOURCE
@@ -200,33 +200,25 @@ def zone_status(review: Review) -> dict[str, str]:
     return worst
 
 
-MEASURING = ("aeroreview.measure", "aeroreview.surfacefile")  # the code whose results are remembered
-SETTLING = ("aeroreview.results.evidence", "aeroreview.results.history")
+SETTLING = ("aeroreview.results.evidence", "aeroreview.results.history")  # the code whose results are remembered
 
 
-def measured_geometry(sheet, memo: Memo | None) -> dict:
-    """Silhouette and section figure data of a sheet's surface, remembered by the file's bytes."""
-    geometry = sheet.geometry
-    path = Path(sheet.path).parent / geometry.file
-
-    def measured() -> dict:
-        from aeroreview import measure
-
-        result = measure.measure(measure.load_surface(path, geometry.units, geometry.nose, geometry.up,
-                                                      geometry.ground))
-        return {"silhouette": measure.silhouette_data(result), "sections": measure.sections_data(result)}
-
-    return (memo or Memo(None)).get(memo_key(path.read_bytes(), repr(geometry), code=MEASURING), measured)
+def measured_geometry(sheet, cache_folder: Path | None) -> dict | None:
+    """Silhouette and section figure data of a sheet's surface (measured once, :mod:`aeroreview.sheetsurface`);
+    None when the surface cannot be measured (its data-quality finding says why)."""
+    found = sheetsurface.measured(sheet, cache_folder)
+    return found.figures if found else None
 
 
-def revision_figures(review: Review, settings: Settings, memo: Memo | None) -> RevisionFigures:
+def revision_figures(review: Review, settings: Settings, geometry_cache: Path | None,
+                     memo: Memo | None = None) -> RevisionFigures:
     """The series and reference data of one revision's figures."""
     air = settings.air()
     context = Context({}, settings.reference_speed, air.density, air.kinematic_viscosity)
     speeds, top = _speeds(review)
     sheet = review.sheet
     ahmed = ahmed_curve(settings, sheet.get("rear.backlight_angle")) if sheet.has("rear.backlight_angle") else None
-    geometry = measured_geometry(sheet, memo) if sheet.geometry else None
+    geometry = measured_geometry(sheet, geometry_cache)
     problems: list[str] = []
     return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
                            yaw_sweep(review, settings.reference_speed), geometry, zone_status(review),

@@ -1,8 +1,9 @@
 """Results of slow, pure computations kept on disk as JSON, keyed by a hash of what they read.
 
-Why: a site rebuild after one sheet changed must not redo what did not change: measuring a
-surface, reading and settling a force history (tens of milliseconds each), refitting a
-calibration's study (statsmodels alone takes one to three seconds to import). The key holds
+Why: a site rebuild after one sheet changed must not redo what did not change: reading and
+settling a force history (tens of milliseconds each; a table read loads pandas), refitting a
+calibration's study (statsmodels alone takes one to three seconds to import). Measured
+surfaces have their own cache (:mod:`aeroreview.sheetsurface`), shared with the review. The key holds
 the inputs' bytes and the source of the modules that compute the result, so a code change
 recomputes rather than showing a stale result. Writes are atomic (a unique temporary file
 renamed into place), so concurrent builds may share the folder; :meth:`Memo.evict` removes

@@ -38,6 +38,7 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
     """Every generated file of the site."""
     out = Output(settings, cache, Memo(cache.folder.parent / "aeroreview-data" if cache.folder else None))
     grouped = by_vehicle(reviews)
+    geometry_cache = cache.folder.parent / "aeroreview-geometry" if cache.folder else None
     fleet.write(out, grouped)
     found = track_record.pairs(reviews)
     record.write(out, found)
@@ -46,7 +47,7 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
         vehicle.write(out, vehicle_id, revisions)
         drawn = {}
         for review in revisions:
-            drawn[review.sheet.revision] = digest.revision_figures(review, settings, out.memo)
+            drawn[review.sheet.revision] = digest.revision_figures(review, settings, geometry_cache, out.memo)
             revision.write(out, review, drawn[review.sheet.revision])
         known = {r.sheet.revision: r for r in revisions}
         for review in revisions:

@@ -94,7 +94,7 @@ class Site:
 @dataclass
 class Output:
     """Where page writers put what they write, with the settings, the figure cache and the memo
-    of slow results (measured surfaces, settled histories, refitted studies)."""
+    of slow results (settled histories, build-up curves, refitted studies)."""
 
     settings: Settings
     cache: FigureCache
