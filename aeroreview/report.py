@@ -154,9 +154,11 @@ def as_text(data: dict, color: bool) -> str:
                     f["waiver"]["status"] == "active" else ""
                 estimate = f"; {_fmt_counts((f['estimate']['cd_counts_low'], f['estimate']['cd_counts_high']))}" \
                     if f["estimate"] and f["estimate"]["cd_counts_high"] else ""
-                if f["calibration"]:
-                    estimate += (f" (team data: {escape(f['calibration']['label'])})" if f["calibration"]["applied"]
-                                 else f" (calibration not applied: {escape(f['calibration']['note'])})")
+                calibration = f["calibration"]
+                if calibration:
+                    note = calibration.get("note")
+                    estimate += (f" (team data: {escape(calibration['label'])}{'; ' + escape(note) if note else ''})"
+                                 if calibration["applied"] else f" (calibration not applied: {escape(note)})")
                 measured = f" ({escape(f['measured'])}, limit {escape(f['limit'])})" if f["measured"] and f["limit"] else ""
                 lines.append(f"    {paint(format(f['status'], '<9'), STYLE[f['status']])} {f['rule']}: {escape(f['message'])}"
                              f"{measured}{estimate}{waived}")

@@ -15,13 +15,14 @@ def write(out: Output) -> None:
     calibrations = out.settings.calibrations
     index = ["# Calibrations", "", "Sensitivities the team fitted on its own parametric studies "
              "(`aeroreview calibrate`). A calibrated rule re-costs its fix with the team's slope inside the "
-             "study's range; its findings then name the source kind *team data*.", ""]
+             "study's range, for the vehicles it declares; their findings then name the source kind *team data*.", ""]
     if not calibrations:
         index.append("No calibrations are named in the settings (`calibrations:` in the aeroreview section of "
                      "`mkdocs.yml`).")
     for cal in calibrations:
-        index.append(f"- [{esc(cal.file)}]({cal.slug}.md): {cal.rows} rows, cross-validated R^2 {cal.cv_r2:.2f}, "
-                     f"{len(cal.slopes)} parameter(s), fitted {esc(cal.date)}")
+        index.append(f"- [{esc(cal.file)}]({cal.slug}.md): {cal.rows} rows, cross-validated R^2 {cal.cv_r2:.2f} and "
+                     f"RMSE {cal.cv_rmse:.1f} counts, {len(cal.slopes)} parameter(s), for {esc(cal.scope)}, fitted "
+                     f"{esc(cal.date)}")
         out.page(page_path(cal), calibration_page(out, cal))
     out.page("calibrations/index.md", "\n".join(index) + "\n")
 
@@ -36,7 +37,8 @@ def calibration_page(out: Output, cal: Calibration) -> str:
               f"| sha256 | {esc(cal.study_sha256)} |", f"| rows used | {cal.rows} ({cal.dropped_rows} dropped for "
               "missing values) |", f"| response | {esc(cal.response)} (in drag counts) |",
               "| model | linear least squares (statsmodels OLS), 95 % intervals |",
-              f"| fitted | {esc(cal.date)} |", ""]
+              f"| fitted | {esc(cal.date)} |", f"| applies to | {esc(cal.scope)} (other vehicles keep the library "
+              "estimates) |", ""]
     lines += [f"## How much of the study the surfaces explain ({cal.folds}-fold cross-validated)", "",
               "| Surface | R^2 | RMSE [counts] |", "|---|---|---|"]
     lines += [f"| {name} | {m['cv_r2']:.3f} | {m['cv_rmse_counts']:.2f} |" for name, m in cal.models.items()]

@@ -120,7 +120,10 @@ def findings(review: Review) -> list[str]:
 
 
 def sources(f: Finding) -> str:
-    return "; ".join(f"{esc(s.citation)}{kind_suffix(s)}" for s in f.sources)
+    """The sources, and why a team calibration of the rule's feature was not applied to this finding."""
+    unused = f" (calibration not applied: {esc(f.calibration['note'])})" \
+        if f.calibration and not f.calibration["applied"] else ""
+    return "; ".join(f"{esc(s.citation)}{kind_suffix(s)}" for s in f.sources) + unused
 
 
 def waiver(f: Finding) -> str:
