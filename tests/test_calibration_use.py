@@ -11,6 +11,7 @@ from __future__ import annotations
 import json
 import math
 import re
+import shlex
 import shutil
 from dataclasses import replace
 
@@ -193,3 +194,16 @@ def test_finding_and_explain_state_the_cross_validated_rmse(cli):
     assert finding["calibration"]["label"] == label
     assert any(label in s["citation"] for s in finding["added_sources"])
     assert label in cli("explain", "underbody.diffuser-angle", "--config", ROOT / "mkdocs.yml").out
+
+
+def test_the_readme_calibrate_example_is_what_the_command_prints(cli, monkeypatch):
+    """The README's console block: the command as written, then its warnings and its table as printed."""
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    block = re.search(r"```console\n(\$ aeroreview calibrate .*?)```", readme, re.S).group(1)
+    lines = block.splitlines(keepends=True)
+    ends = next(i for i, line in enumerate(lines) if not line.rstrip().endswith("\\"))  # the command's last line
+    args = shlex.split("".join(lines[:ends + 1]).replace("\\\n", " "))
+    shown = "".join(lines[ends + 1:])
+    monkeypatch.chdir(ROOT)  # the example runs from the repository root
+    run = cli(*args[2:])
+    assert run.code == 0 and shown == run.err + run.out  # warnings (stderr) come before the table
