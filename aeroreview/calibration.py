@@ -294,6 +294,15 @@ def team_source(finding) -> Source | None:
                   f"(95 % {calibration['ci95'][0]:+.3g} to {calibration['ci95'][1]:+.3g}){note}", "team data")
 
 
+def reach(cal: Calibration, reviews) -> tuple[list[tuple[object, list[str]]], list[str]]:
+    """Whom a calibration reached in a fleet: each review with the rules it re-costed there, and the
+    vehicle ids it declares that no sheet has (a typo there would silently re-cost nothing)."""
+    recosted = [(review, [f.rule.id for f in review.findings if f.calibration and f.calibration["applied"]
+                          and f.calibration["file"] == cal.file]) for review in reviews]
+    known = {review.sheet.vehicle_id for review in reviews}
+    return [(review, ids) for review, ids in recosted if ids], [v for v in cal.vehicles if v not in known]
+
+
 def _rounded(values) -> list[float]:
     return [float(f"{v:.5g}") for v in values]
 

@@ -207,3 +207,19 @@ def test_the_readme_calibrate_example_is_what_the_command_prints(cli, monkeypatc
     monkeypatch.chdir(ROOT)  # the example runs from the repository root
     run = cli(*args[2:])
     assert run.code == 0 and shown == run.err + run.out  # warnings (stderr) come before the table
+
+
+def test_reach_lists_the_recosted_revisions_and_declared_vehicles_without_a_sheet():
+    from aeroreview.calibration import reach
+    from aeroreview.review import review_sheet
+    from aeroreview.sheet import load_fleet
+
+    reviews = [review_sheet(sheet, SETTINGS) for sheet in load_fleet([ROOT / "vehicles"]).sheets]
+    (cal,) = SETTINGS.calibrations
+    recosted, unknown = reach(cal, reviews)
+    # The Tessel r1 (the problem revision) has the calibrated features outside the rules' limits; the
+    # Quillon and the Dravik are not in the calibration's scope.
+    assert {review.sheet.label for review, _ in recosted} == {"tessel@r1"} and unknown == []
+    assert {"rear.backlight-angle", "underbody.diffuser-angle"} <= set(recosted[0][1])
+    _, unknown = reach(replace(cal, vehicles=("tessel", "tesel")), reviews)
+    assert unknown == ["tesel"]
