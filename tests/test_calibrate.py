@@ -10,6 +10,7 @@ import json
 import re
 
 import numpy as np
+import yaml
 
 import pytest
 
@@ -166,6 +167,11 @@ def test_calibrate_reports_and_writes_a_calibration(cli, tmp_path):
     text = (tmp_path / "cal.yaml").read_text()
     assert "sha256: " in text and "study.csv" in text and "cv_r2" in text and "date:" in text
     assert "vehicles: [tessel]" in text  # the vehicle the study is of: whose findings it re-costs
+    # The file keeps the figures to the digits the report shows, so a page shows the same R^2 and RMSE.
+    shown = cli("calibrate", study, *GOOD_MAPS).out
+    for name, model in yaml.safe_load(text)["cross_validation"].items():
+        if isinstance(model, dict):
+            assert f"{name} R^2 {model['cv_r2']:.3f}, RMSE {model['cv_rmse_counts']:.2f} counts" in shown
 
 
 def test_output_never_overwrites(cli, tmp_path):
