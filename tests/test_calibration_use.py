@@ -223,3 +223,13 @@ def test_reach_lists_the_recosted_revisions_and_declared_vehicles_without_a_shee
     assert {"rear.backlight-angle", "underbody.diffuser-angle"} <= set(recosted[0][1])
     _, unknown = reach(replace(cal, vehicles=("tessel", "tesel")), reviews)
     assert unknown == ["tesel"]
+
+
+def test_a_calibration_without_its_cross_validated_rmse_is_refused_located(cli, tmp_path):
+    text = (ROOT / CALIBRATION).read_text()
+    spoiled = re.sub(r"linear: \{cv_r2: ([0-9.]+), cv_rmse_counts: [0-9.]+\}", r"linear: {cv_r2: \1}", text)
+    assert spoiled != text
+    run = cli("check", ROOT / "vehicles/tessel/r2.yaml", "--config", _knowledge_base(tmp_path, CALIBRATION, spoiled))
+    line = next(i for i, l in enumerate(spoiled.splitlines(), 1) if l.strip().startswith("linear:"))
+    assert run.code == 2 and re.search(rf"{CALIBRATION}:{line}:\d+: calibration 'cross_validation.linear.cv_rmse_counts' "
+                                       "is missing", run.err), run.err
