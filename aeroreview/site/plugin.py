@@ -51,7 +51,8 @@ class AeroreviewConfig(base.Config):
     fail_on = c.Type(str, default="failure")
     rules = c.Type(dict, default={})
     max_attachment_mb = c.Optional(c.Type((int, float)))
-    calibrations = c.Type(list, default=[])
+    estimates = c.Optional(c.Type(dict))  # floors and region budgets of the combination model
+    calibrations = c.Type(list, default=[])  # files, or {file, vehicles, classes}
 
 
 def fleet_epoch(reviews) -> int:
