@@ -26,6 +26,8 @@ from aeroreview.rules.surface_agreement import SurfaceValues
 from aeroreview.sheetcheck import SURFACE_SUFFIXES
 
 CACHE_FOLDER = Path(".cache") / "aeroreview-geometry"  # beside the configuration, as the figure cache
+MEMORY_ENTRIES = 64  # measurements this process keeps (one per surface and options; each well under 1 MB)
+_MEMORY: dict[str, dict] = {}
 # The code whose output the cache holds: a change to any of it re-measures every surface.
 MEASURING_CODE = ("aeroreview.measure", "aeroreview.surfacefile", "aeroreview.plausible", "aeroreview.calc.geometry")
 
@@ -54,28 +56,30 @@ def measured(sheet, folder: Path | None) -> Measured | None:
         return Measured(SurfaceValues(geometry.file, problem=str(problem)), None)
     options = [geometry.units, geometry.nose, geometry.up, geometry.ground]
     key = hashlib.sha256(hashlib.sha256(content).digest() + json.dumps(options).encode() + _code_digest()).hexdigest()
-    return _measured(key, geometry.file, str(path), tuple(options), str(folder) if folder else None)
-
-
-@lru_cache(maxsize=64)
-def _measured(key: str, name: str, path: str, options: tuple, folder: str | None) -> Measured:
     cached = Path(folder) / f"{key[:32]}.json" if folder else None
-    try:
-        data = json.loads(cached.read_text(encoding="utf-8")) if cached and cached.is_file() else None
-    except (OSError, ValueError):
-        data = None  # unreadable or half-written by another process: measure again
+    data = _MEMORY.get(key) or _read(cached)
     if data is None:
         try:
-            data = _measure(path, options)
+            data = _measure(str(path), options)
         except UsageError as problem:  # MeasureError: not a mesh, empty, absurd size...
-            return Measured(SurfaceValues(name, problem=str(problem).removeprefix(f"{path}: ")), None)
-        if cached:
-            _write(cached, data)
-    values = SurfaceValues(name, {k: float(v) for k, v in data["values"].items()}, dict(data["doubts"]))
+            return Measured(SurfaceValues(geometry.file, problem=str(problem).removeprefix(f"{path}: ")), None)
+    if len(_MEMORY) >= MEMORY_ENTRIES:
+        _MEMORY.clear()
+    _MEMORY[key] = data
+    if cached and not cached.is_file():
+        _write(cached, data)
+    values = SurfaceValues(geometry.file, {k: float(v) for k, v in data["values"].items()}, dict(data["doubts"]))
     return Measured(values, data["figures"])
 
 
-def _measure(path: str, options: tuple) -> dict:
+def _read(cached: Path | None) -> dict | None:
+    try:
+        return json.loads(cached.read_text(encoding="utf-8")) if cached and cached.is_file() else None
+    except (OSError, ValueError):
+        return None  # unreadable or half-written by another process: measure again
+
+
+def _measure(path: str, options: list) -> dict:
     """Measure the surface (the only place that imports the mesh code): JSON-able values, doubts, figures."""
     from aeroreview import catalogue, measure, plausible
 
