@@ -8,6 +8,7 @@ stability must be confirmed by test before a vehicle is driven at speed.
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -28,7 +29,29 @@ def lift_result(sheet):
     return min(with_lift, key=lambda r: (r.scale < 1, r.kind == "estimate"), default=None)
 
 
-def axle_figures(sheet, ctx, speed: float) -> dict | None:
+@dataclass(frozen=True)
+class AxleFigures:
+    """Lift on each axle at one speed: force [N], in kg, and as a share of the static axle load."""
+
+    speed_km_h: float
+    front_N: float
+    rear_N: float
+    front_kg: float
+    rear_kg: float
+    front_share: float
+    rear_share: float
+    cl_front: float
+    cl_rear: float
+    result: str  # the label of the result the coefficients come from
+
+    def kg(self, axle: str) -> float:
+        return self.front_kg if axle == "front" else self.rear_kg
+
+    def share(self, axle: str) -> float:
+        return self.front_share if axle == "front" else self.rear_share
+
+
+def axle_figures(sheet, ctx, speed: float) -> AxleFigures | None:
     """Lift per axle [N, kg] and as a share of the static axle load at ``speed`` [m/s]."""
     result = lift_result(sheet)
     area = result.reference_area or sheet.get("dimensions.frontal_area") if result else None
@@ -37,9 +60,8 @@ def axle_figures(sheet, ctx, speed: float) -> dict | None:
     front, rear = (float(x) for x in axle_lift(result.cl_front, result.cl_rear, area, speed, ctx.density))
     share_front, share_rear = (float(x) for x in axle_load_share(front, rear, sheet.get("mass.curb"),
                                                                  sheet.get("mass.front_axle_share")))
-    return {"speed_km_h": speed * 3.6, "front_N": front, "rear_N": rear, "front_kg": float(kilograms_force(front)),
-            "rear_kg": float(kilograms_force(rear)), "front_share": share_front, "rear_share": share_rear,
-            "cl_front": result.cl_front, "cl_rear": result.cl_rear, "result": result.label}
+    return AxleFigures(speed * 3.6, front, rear, float(kilograms_force(front)), float(kilograms_force(rear)),
+                       share_front, share_rear, result.cl_front, result.cl_rear, result.label)
 
 
 def _unloading(sheet, ctx, axle: str):
@@ -49,12 +71,12 @@ def _unloading(sheet, ctx, axle: str):
                             missing=("results[].cl_front", "results[].cl_rear"))
     reference_speed = ctx.reference_speed
     reference = axle_figures(sheet, ctx, reference_speed)
-    share, kg = top[f"{axle}_share"], top[f"{axle}_kg"]
+    share, kg = top.share(axle), top.kg(axle)
     strict = sheet.get("vehicle.class") in STRICT_CLASSES or sheet.get("powertrain.top_speed") > ctx["fast"]
     factor = STRICT_FACTOR if strict else 1.0
     ctx = {"major_share": ctx["major_share"] * factor, "minor_share": ctx["minor_share"] * factor}
     measured = (f"{PERCENT(share, 1, signed=True)} of the static {axle} axle load ({KG(kg, signed=True)}) at "
-                f"{KM_H(sheet.get('powertrain.top_speed'))}; {KG(reference[f'{axle}_kg'], signed=True)} at "
+                f"{KM_H(sheet.get('powertrain.top_speed'))}; {KG(reference.kg(axle), signed=True)} at "
                 f"{KM_H(reference_speed)}")
     details = {"top_speed": top, "reference_speed": reference, "strict_limits": strict}
     unacceptable = Reading(share, PERCENT, at_most=ctx["major_share"], places=1)
