@@ -74,6 +74,10 @@ def render(vehicle_id: str, vehicle_class: str, revision: str = "r1", today: _dt
     lines += [
         "results: []  # CFD, tunnel or road results: kind, label, speed, cd, cl_front, cl_rear (lift positive "
         "upward), yaw_sweep (yaw positive either side; one side is mirrored)",
+        "# Say how each result was taken: wheels (rotating, fixed, none) and ground (moving, fixed);",
+        "# wheel and underbody fixes are costed on the result of record (data.ground-simulation).",
+        "# Mark the one the review uses with of_record: true (one per sheet); without a mark the",
+        "# review takes full-scale tunnel or road, then CFD, then model-scale tunnel, then estimates.",
         "waivers: []  # accepted findings: rule, reason, by, expires",
         "notes: ''",
         "attachments: []  # images: file (relative to this sheet), zone, caption",
