@@ -26,6 +26,7 @@ from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
 from aeroreview.problems import InputError
 from aeroreview.results import evidence
 from aeroreview.results.evidence import Buildup, BuildupChange, HistoryFigure
+from aeroreview.results.history import team_limits
 from aeroreview.review import Finding, Review
 from aeroreview.rules import NOT_ASSESSED, Context, all_rules
 from aeroreview.rules.stability import axle_figures
@@ -229,8 +230,8 @@ def revision_figures(review: Review, settings: Settings, geometry_cache: Path | 
     problems: list[str] = []
     return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
                            yaw_sweep(review, settings.reference_speed), geometry, zone_status(review),
-                           _drawn(problems, result_history, sheet), _drawn(problems, result_buildup, sheet, geometry),
-                           problems)
+                           _drawn(problems, result_history, sheet, team_limits(settings)),
+                           _drawn(problems, result_buildup, sheet, geometry), problems)
 
 
 def result_file(sheet, role: str) -> tuple[Path, str] | None:
@@ -242,9 +243,9 @@ def result_file(sheet, role: str) -> tuple[Path, str] | None:
     return None
 
 
-def result_history(sheet) -> HistoryFigure | None:
+def result_history(sheet, limits: dict[str, float] | None = None) -> HistoryFigure | None:
     found = result_file(sheet, "history")
-    return evidence.history_figure(found[0], f"{sheet.revision}, {found[1]}") if found else None
+    return evidence.history_figure(found[0], f"{sheet.revision}, {found[1]}", limits) if found else None
 
 
 def result_buildup(sheet, geometry: dict | None) -> Buildup | None:

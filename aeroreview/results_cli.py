@@ -56,8 +56,10 @@ def cmd_history(args) -> int:
     from aeroreview.results import history
 
     name = named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES) if args.sheet else None
+    from aeroreview.settings import load_settings
+
     result = history.settle(history.read_history(args.file, column_map(args.columns or "")),
-                            _convergence_limits(args.config))
+                            history.team_limits(load_settings(args.config)))
     _print(history.as_json(result), history.as_text(result), args.json)
     if args.sheet:
         from aeroreview.results import record
@@ -65,15 +67,6 @@ def cmd_history(args) -> int:
         done = record.merge_result(args.sheet, record.history_entry(result, name, record.sha256(args.file)))
         print(f"{args.sheet}: {done['action']} results[{done['index']}] from {name}", file=sys.stderr)
     return 0
-
-
-def _convergence_limits(config) -> dict[str, float] | None:
-    """The team's data.convergence thresholds (its settings' overrides), so the verdict printed
-    here is the one ``check`` gives the sheet; None (the defaults) when the rule is disabled."""
-    from aeroreview.settings import load_settings
-
-    return next((context.thresholds for rule, context, _ in load_settings(config).rule_plan
-                 if rule.id == "data.convergence"), None)
 
 
 def cmd_surface(args) -> int:

@@ -145,8 +145,9 @@ DRAG_RESOLUTION = Source("a review resolves differences of about 1 drag count (0
                          "Drag Prediction Workshops aimed at; a 95 % band of +-2 standard errors within +-1 count "
                          "needs a standard error of 0.5 counts; recalled", "from memory")
 MSER_SOURCE = Source("White, 'An effective truncation heuristic for bias reduction in simulation output', "
-                     "Simulation 69(6), 1997, 323-334: a truncation point past half the run means the run is too "
-                     "short for its transient to have ended", "published")
+                     "Simulation 69(6), 1997, 323-334 (named as the MSER source in the checked abstract of White, "
+                     "Cobb and Spratt, Proc. 2000 Winter Simulation Conference; title, pages and the rule that a "
+                     "truncation point past half the run means a run too short to settle recalled)", "from memory")
 CONVERGENCE_THRESHOLDS = (
     Threshold("std_error", "0.0005", "", "standard error of a settled drag mean (0.5 counts)", DRAG_RESOLUTION),
     Threshold("lift_std_error", "0.001", "", "standard error of a settled lift or side-force mean (1 count)", COMMON),

@@ -316,6 +316,12 @@ def _coefficient(steps, series, start, is_time) -> Coefficient:
         drift_per_time=slope if is_time else None, peak_to_peak=float(np.ptp(part)))
 
 
+def team_limits(settings) -> dict[str, float] | None:
+    """The data.convergence thresholds of ``settings`` (with the team's overrides), so a verdict
+    shown anywhere is the one ``check`` gives; None (the defaults) when the rule is disabled."""
+    return next((context.thresholds for rule, context, _ in settings.rule_plan if rule.id == "data.convergence"), None)
+
+
 def settle(history: History, limits: dict[str, float] | None = None) -> Settled:
     """Find the settled part of ``history`` and judge its coefficients (thresholds: ``limits``,
     default the data.convergence rule's)."""
