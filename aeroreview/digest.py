@@ -10,15 +10,13 @@ lift figure, the key-number table and the stability rules show one number.
 
 from __future__ import annotations
 
-import hashlib
-import json
 import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue
+from aeroreview import catalogue, sheetsurface
 from aeroreview.baseline import leading_number
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.references import AHMED_ATTACHED, AHMED_SEPARATED, AHMED_SOURCE
@@ -201,22 +199,11 @@ def zone_status(review: Review) -> dict[str, str]:
     return worst
 
 
-def measured_geometry(sheet, cache_folder: Path | None) -> dict:
-    """Silhouette and section figure data of a sheet's surface, cached by the file's hash."""
-    from aeroreview import measure
-
-    geometry = sheet.geometry
-    path = Path(sheet.path).parent / geometry.file
-    digest = hashlib.sha256(path.read_bytes() + repr(geometry).encode()).hexdigest()[:24]
-    cached = cache_folder / f"{digest}.json" if cache_folder else None
-    if cached and cached.is_file():
-        return json.loads(cached.read_text(encoding="utf-8"))
-    result = measure.measure(measure.load_surface(path, geometry.units, geometry.nose, geometry.up, geometry.ground))
-    data = {"silhouette": measure.silhouette_data(result), "sections": measure.sections_data(result)}
-    if cached:
-        cached.parent.mkdir(parents=True, exist_ok=True)
-        cached.write_text(json.dumps(data), encoding="utf-8")
-    return data
+def measured_geometry(sheet, cache_folder: Path | None) -> dict | None:
+    """Silhouette and section figure data of a sheet's surface (measured once, :mod:`aeroreview.sheetsurface`);
+    None when the surface cannot be measured (its data-quality finding says why)."""
+    found = sheetsurface.measured(sheet, cache_folder)
+    return found.figures if found else None
 
 
 def revision_figures(review: Review, settings: Settings, geometry_cache: Path | None) -> RevisionFigures:
@@ -226,7 +213,7 @@ def revision_figures(review: Review, settings: Settings, geometry_cache: Path | 
     speeds, top = _speeds(review)
     sheet = review.sheet
     ahmed = ahmed_curve(settings, sheet.get("rear.backlight_angle")) if sheet.has("rear.backlight_angle") else None
-    geometry = measured_geometry(sheet, geometry_cache) if sheet.geometry else None
+    geometry = measured_geometry(sheet, geometry_cache)
     problems: list[str] = []
     return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
                            yaw_sweep(review, settings.reference_speed), geometry, zone_status(review),

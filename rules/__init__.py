@@ -351,6 +351,7 @@ from aeroreview.rules import (  # noqa: E402,F401
     result_quality,
     sides,
     stability,
+    surface_agreement,
     underbody,
     wheels,
     windshield,
