@@ -11,7 +11,7 @@ lift figure, the key-number table and the stability rules show one number.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
 import numpy as np
@@ -21,6 +21,8 @@ from aeroreview.baseline import leading_number
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.references import AHMED_ATTACHED, AHMED_SEPARATED, AHMED_SOURCE
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
+from aeroreview.memo import Memo
+from aeroreview.memo import key as memo_key
 from aeroreview.problems import InputError
 from aeroreview.results import evidence
 from aeroreview.results.evidence import Buildup, BuildupChange, HistoryFigure
@@ -199,6 +201,10 @@ def zone_status(review: Review) -> dict[str, str]:
     return worst
 
 
+SETTLING = ("aeroreview.results.evidence", "aeroreview.results.history",  # the code whose results are remembered
+            "aeroreview.rules.result_quality")  # (the verdict of a history is the convergence rule's)
+
+
 def measured_geometry(sheet, cache_folder: Path | None) -> dict | None:
     """Silhouette and section figure data of a sheet's surface (measured once, :mod:`aeroreview.sheetsurface`);
     None when the surface cannot be measured (its data-quality finding says why)."""
@@ -206,7 +212,8 @@ def measured_geometry(sheet, cache_folder: Path | None) -> dict | None:
     return found.figures if found else None
 
 
-def revision_figures(review: Review, settings: Settings, geometry_cache: Path | None) -> RevisionFigures:
+def revision_figures(review: Review, settings: Settings, geometry_cache: Path | None,
+                     memo: Memo | None = None) -> RevisionFigures:
     """The series and reference data of one revision's figures."""
     air = settings.air()
     context = Context({}, settings.reference_speed, air.density, air.kinematic_viscosity)
@@ -217,8 +224,8 @@ def revision_figures(review: Review, settings: Settings, geometry_cache: Path | 
     problems: list[str] = []
     return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
                            yaw_sweep(review, settings.reference_speed), geometry, zone_status(review),
-                           _drawn(problems, result_history, sheet, team_limits(settings)),
-                           _drawn(problems, result_buildup, sheet, geometry), problems)
+                           _drawn(problems, result_history, sheet, team_limits(settings), memo),
+                           _drawn(problems, result_buildup, sheet, geometry, memo), problems)
 
 
 def result_file(sheet, role: str) -> tuple[Path, str] | None:
@@ -230,20 +237,34 @@ def result_file(sheet, role: str) -> tuple[Path, str] | None:
     return None
 
 
-def result_history(sheet, limits: dict[str, float] | None = None) -> HistoryFigure | None:
+def result_history(sheet, limits: dict[str, float] | None = None, memo: Memo | None = None) -> HistoryFigure | None:
+    """The force history thinned for its figure, its verdict judged by ``limits`` (the team's), remembered
+    by the file's bytes and the limits (reading and settling a solver's history takes tens of milliseconds)."""
     found = result_file(sheet, "history")
-    return evidence.history_figure(found[0], f"{sheet.revision}, {found[1]}", limits) if found else None
+    if not found:
+        return None
+    path, label = found[0], f"{sheet.revision}, {found[1]}"
+    data = (memo or Memo(None)).get(memo_key(path.read_bytes(), label, repr(sorted((limits or {}).items())),
+                                             code=SETTLING),
+                                    lambda: asdict(evidence.history_figure(path, label, limits)))
+    return HistoryFigure(**data)
 
 
-def result_buildup(sheet, geometry: dict | None) -> Buildup | None:
-    """The build-up with its zones: from the measured centreline when there is one, else the axles."""
+def result_buildup(sheet, geometry: dict | None, memo: Memo | None = None) -> Buildup | None:
+    """The build-up with its zones: from the measured centreline when there is one, else the axles.
+    The file's curves are remembered by its bytes (reading a table loads pandas, half a second)."""
     found = result_file(sheet, "buildup")
     if not found:
         return None
     silhouette = geometry["silhouette"] if geometry else None
     front, wheelbase = sheet.get("dimensions.front_overhang"), sheet.get("dimensions.wheelbase")
+
+    def read(path: Path) -> list[list[float]]:
+        return (memo or Memo(None)).get(memo_key(path.read_bytes(), code=SETTLING),
+                                        lambda: [curve.tolist() for curve in evidence.read_buildup(path)])
+
     return evidence.buildup(found[0], sheet.revision,
-                            lambda length: evidence.zones_along_x(length, silhouette, front, wheelbase))
+                            lambda length: evidence.zones_along_x(length, silhouette, front, wheelbase), read)
 
 
 def _drawn(problems: list[str], read, *args):
