@@ -11,9 +11,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from aeroreview.display import COUNTS
 from aeroreview.rules import COMMON, Source, Threshold, major, minor, not_assessed, passed, rule
 
-COUNT = 0.001  # one drag count (common practice)
 # The default order when no result is marked of record: full-scale tunnel or road first (the
 # car itself, or its full-size model, in the air), CFD next, model-scale tunnel (Reynolds
 # number below the car's) and estimates last (our convention, common practice).
@@ -73,8 +73,8 @@ def one_result_of_record(sheet, ctx):
         return passed("no results to choose from", measured="no results")
     candidates = [r for r in sheet.results if r.kind != "estimate"] or sheet.results  # an estimate yields to any
     spread = round(max(r.cd for r in candidates) - min(r.cd for r in candidates), 6)  # 0.234 - 0.232 is 2 counts
-    measured = f"{len(candidates)} result(s), Cd spread {spread / COUNT:.1f} counts"
-    limit = f"<= {ctx['difference'] / COUNT:g} counts, or one marked of record"
+    measured = f"{len(candidates)} result(s), Cd spread {COUNTS(spread, 1)}"
+    limit = f"<= {COUNTS(ctx['difference'], None)}, or one marked of record"
     if chosen.of_record:
         return passed(f"'{chosen.label}' is marked of record", measured=measured, limit=limit)
     if spread > ctx["difference"]:
@@ -183,10 +183,10 @@ def convergence_reasons(stats: Convergence, limits: dict[str, float]) -> list[st
     for key, std_error, drift in stats.coefficients:
         limit = limits["std_error"] if key == "cd" else limits["lift_std_error"]
         if std_error > limit:
-            reasons.append(f"{key}: standard error {std_error / COUNT:.2f} counts, over {limit / COUNT:g}")
+            reasons.append(f"{key}: standard error {COUNTS(std_error, 2)}, over {COUNTS.number(limit, None)}")
         if abs(drift) > limits["drift"]:
-            reasons.append(f"{key}: drift {drift / COUNT:+.2f} counts per 1000 iterations, over "
-                           f"{limits['drift'] / COUNT:g}")
+            reasons.append(f"{key}: drift {COUNTS(drift, 2, signed=True)} per 1000 iterations, over "
+                           f"{COUNTS.number(limits['drift'], None)}")
     return reasons
 
 
@@ -222,7 +222,7 @@ def converged(sheet, ctx):
     if not judged:
         return not_assessed("needs a result read from a history (aeroreview results history --sheet)",
                             missing=("results[].convergence",))
-    limit = f"Cd standard error <= {ctx['std_error'] / COUNT:g} counts, drift <= {ctx['drift'] / COUNT:g} counts " \
+    limit = f"Cd standard error <= {COUNTS(ctx['std_error'], None)}, drift <= {COUNTS(ctx['drift'], None)} " \
             f"per 1000 iterations, >= {ctx['settled_rows']:.0f} settled rows"
     failing = [(r, reasons) for r, reasons in judged if reasons]
     if failing:
