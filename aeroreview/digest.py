@@ -26,6 +26,7 @@ from aeroreview.memo import key as memo_key
 from aeroreview.problems import InputError
 from aeroreview.results import evidence
 from aeroreview.results.evidence import Buildup, BuildupChange, HistoryFigure
+from aeroreview.results.history import team_limits
 from aeroreview.review import Finding, Review
 from aeroreview.rules import NOT_ASSESSED, Context, all_rules
 from aeroreview.rules.stability import axle_figures
@@ -200,7 +201,8 @@ def zone_status(review: Review) -> dict[str, str]:
     return worst
 
 
-SETTLING = ("aeroreview.results.evidence", "aeroreview.results.history")  # the code whose results are remembered
+SETTLING = ("aeroreview.results.evidence", "aeroreview.results.history",  # the code whose results are remembered
+            "aeroreview.rules.result_quality")  # (the verdict of a history is the convergence rule's)
 
 
 def measured_geometry(sheet, cache_folder: Path | None) -> dict | None:
@@ -222,9 +224,8 @@ def revision_figures(review: Review, settings: Settings, geometry_cache: Path | 
     problems: list[str] = []
     return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
                            yaw_sweep(review, settings.reference_speed), geometry, zone_status(review),
-                           _drawn(problems, result_history, sheet, memo),
-                           _drawn(problems, result_buildup, sheet, geometry, memo),
-                           problems)
+                           _drawn(problems, result_history, sheet, team_limits(settings), memo),
+                           _drawn(problems, result_buildup, sheet, geometry, memo), problems)
 
 
 def result_file(sheet, role: str) -> tuple[Path, str] | None:
@@ -236,15 +237,16 @@ def result_file(sheet, role: str) -> tuple[Path, str] | None:
     return None
 
 
-def result_history(sheet, memo: Memo | None = None) -> HistoryFigure | None:
-    """The force history thinned for its figure, remembered by the file's bytes (reading and settling
-    a solver's history takes tens of milliseconds)."""
+def result_history(sheet, limits: dict[str, float] | None = None, memo: Memo | None = None) -> HistoryFigure | None:
+    """The force history thinned for its figure, its verdict judged by ``limits`` (the team's), remembered
+    by the file's bytes and the limits (reading and settling a solver's history takes tens of milliseconds)."""
     found = result_file(sheet, "history")
     if not found:
         return None
     path, label = found[0], f"{sheet.revision}, {found[1]}"
-    data = (memo or Memo(None)).get(memo_key(path.read_bytes(), label, code=SETTLING),
-                                    lambda: asdict(evidence.history_figure(path, label)))
+    data = (memo or Memo(None)).get(memo_key(path.read_bytes(), label, repr(sorted((limits or {}).items())),
+                                             code=SETTLING),
+                                    lambda: asdict(evidence.history_figure(path, label, limits)))
     return HistoryFigure(**data)
 
 

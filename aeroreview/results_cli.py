@@ -56,7 +56,10 @@ def cmd_history(args) -> int:
     from aeroreview.results import history
 
     name = named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES) if args.sheet else None
-    result = history.settle(history.read_history(args.file, column_map(args.columns or "")))
+    from aeroreview.settings import load_settings
+
+    result = history.settle(history.read_history(args.file, column_map(args.columns or "")),
+                            history.team_limits(load_settings(args.config)))
     _print(history.as_json(result), history.as_text(result), args.json)
     if args.sheet:
         from aeroreview.results import record
@@ -119,10 +122,14 @@ def _record_surface(args, forces, area: float, sheet_area: float | None) -> None
 def cmd_yaw(args) -> int:
     from aeroreview.results import yaw
 
-    if args.sheet:
-        named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES)
+    name = named_by_sheet(args.file, args.sheet, TABLE_SUFFIXES) if args.sheet else None
     sweep = yaw.read_yaw(args.file, column_map(args.columns or ""), args.speed, args.wind)
     _print(yaw.as_json(sweep), yaw.as_text(sweep), args.json)
+    if args.sheet:
+        from aeroreview.results import record
+
+        done = record.merge_result(args.sheet, record.yaw_entry(sweep, name, record.sha256(args.file), args.kind))
+        print(f"{args.sheet}: {done['action']} results[{done['index']}] from {name}", file=sys.stderr)
     return 0
 
 
@@ -149,6 +156,7 @@ def add_parser(sub) -> None:
     p = results_sub.add_parser("history", help="a coefficient history: settled part, means, standard errors, verdict")
     common(p, "CSV or whitespace table of coefficients per iteration or time step")
     p.add_argument("--columns", help="columns by name or number, e.g. iter=Time,cd=Cd,cl=Cl (default: found by name)")
+    p.add_argument("--config", help="settings file, for the team's data.convergence thresholds (default ./mkdocs.yml)")
     p.set_defaults(run=cmd_history)
 
     p = results_sub.add_parser("surface", help="a surface field: Cd, Cl, axle lift and their build-up along x")
@@ -177,4 +185,6 @@ def add_parser(sub) -> None:
     p.add_argument("--speed", type=quantity("km/h", 1, 600), help="vehicle speed [km/h] for the wind-averaged Cd")
     p.add_argument("--wind", type=quantity("m/s", 0, 30), default=J1252_WIND_SPEED,
                    help=f"mean wind speed [m/s] (default {J1252_WIND_SPEED:.2f}, the J1252 7 mph)")
+    p.add_argument("--kind", choices=("tunnel", "cfd", "road"), default="tunnel",
+                   help="what the sweep is, for the sheet's result (default tunnel)")
     p.set_defaults(run=cmd_yaw)

@@ -29,7 +29,8 @@ from aeroreview.estimate import Estimate, Frame, claim_of, estimate, frame_for, 
 from aeroreview.problems import Problem
 from aeroreview.rules import (FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Source, Verdict,
                               actionable)
-from aeroreview.rules.data import CLASS_CD, measured_cd
+from aeroreview.rules.data import CLASS_CD
+from aeroreview.rules.result_quality import measured_cd
 from aeroreview.rules.stability import axle_figures
 from aeroreview.settings import Settings, status_rank
 from aeroreview.sheet import Sheet

@@ -48,6 +48,8 @@ def field_schema(item: Field) -> dict:
         plain = {"type": "array", "items": {"anyOf": [section_schema(item.items), NULL]}}
     elif item.kind == "raw":
         plain = item.raw_schema or {}
+    elif item.kind == "flag":
+        plain = {"type": "boolean"}
     else:
         plain = _text(item)
     return plain if item.required or not plain else {"anyOf": [plain, NULL]}

@@ -21,6 +21,8 @@ MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
 FILE_NAME = r"^(?!/)(?!.*\.\.)[^\\:]+$"  # relative, no "..", no drive or backslash (safe_file checks more)
 MAX_GROUND = 1e6  # |ground| in file units: 1 km in mm, beyond any surface file (common practice)
 RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
+WHEEL_STATES = ("rotating", "fixed", "none")  # none: a body tested or computed without wheels
+GROUND_STATES = ("moving", "fixed")  # a fixed floor stays "fixed" with boundary-layer suction ahead of the car
 COEFFICIENT = (-3.0, 3.0)  # road-vehicle force and moment coefficients lie well inside (from memory: Hucho
 #                             1998, chapter not checked)
 DRAG_COEFFICIENT = (0.05, 2.0)  # below any road body; above a flat plate normal to the flow, about 1.2
@@ -33,7 +35,8 @@ class Field:
 
     kind: ``text`` (a string; numbers are read as their text), ``file`` (text naming a file
     beside the sheet: the checker's ``safe_file`` decides, the schema's ``pattern`` only
-    approximates it), ``number`` (a plain number in ``unit``, or a string with a unit),
+    approximates it), ``number`` (a plain number in ``unit``, or a string with a unit), ``flag``
+    (true or false),
     ``date`` (YYYY-MM-DD, quoted or not), ``list`` (of ``items`` mappings) or ``raw`` (read
     by hand in the checker; the schema gets ``raw_schema``).
     """
@@ -92,6 +95,14 @@ RESULT_FILE = Section("files", (  # a file a result was read from (aeroreview re
     _text("role", 20, choices=("history", "surface", "buildup", "yaw")),
 ))
 
+HISTORY_COEFFICIENTS = ("cd", "cl", "cl_front", "cl_rear", "cs")  # as aeroreview.results.history finds them
+CONVERGENCE = Section("convergence", (  # one coefficient of a settled history (aeroreview results history)
+    _text("coefficient", 20, required=True, choices=HISTORY_COEFFICIENTS),
+    Field("std_error", "number", "", (0.0, 1.0), required=True),  # of its settled mean, autocorrelation counted
+    Field("drift", "number", "", (-1.0, 1.0), required=True),  # per 1000 iterations (1000 samples of a time history)
+))
+MAX_ROWS = 1e9  # rows of a history: a force monitor of a billion rows is far beyond any run (common practice)
+
 RESULT = Section("results", (
     _text("kind", 20, required=True, choices=RESULT_KINDS),
     _text("label", 200),
@@ -107,9 +118,13 @@ RESULT = Section("results", (
     *MOMENTS,
     Field("settled_from", "number"),  # a history's settled window, in its own first column (results history)
     Field("settled_to", "number"),
-    Field("std_error", "number", "", (0.0, 1.0)),  # of the settled Cd mean, autocorrelation counted
-    Field("drift", "number", "", (-1.0, 1.0)),  # of Cd per 1000 iterations
+    Field("history_rows", "number", "", (0, MAX_ROWS)),  # rows of the history, and of its settled part
+    Field("settled_rows", "number", "", (0, MAX_ROWS)),
+    Field("convergence", "list", items=CONVERGENCE),  # what data.convergence judges
     Field("files", "list", items=RESULT_FILE),  # provenance: the files the result was read from
+    _text("wheels", 20, choices=WHEEL_STATES),  # did the wheels turn (on the road they do)
+    _text("ground", 20, choices=GROUND_STATES),  # did the ground move under the car (belt, moving wall, road)
+    Field("of_record", "flag"),  # the result the review uses; at most one per sheet
 ))
 
 WAIVER = Section("waivers", (
@@ -189,9 +204,13 @@ class Result:
     cpm: float | None = None
     settled_from: float | None = None
     settled_to: float | None = None
-    std_error: float | None = None
-    drift: float | None = None
+    history_rows: int | None = None
+    settled_rows: int | None = None
+    convergence: tuple[tuple[str, float, float], ...] = ()  # (coefficient, std_error, drift per 1000)
     files: tuple[tuple[str, str, str], ...] = ()  # (file, sha256, role)
+    wheels: str = ""  # rotating, fixed, none; "" when the sheet does not say
+    ground: str = ""  # moving, fixed; "" when the sheet does not say
+    of_record: bool = False
 
 
 @dataclass(frozen=True)

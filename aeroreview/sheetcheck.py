@@ -118,6 +118,13 @@ class Checker:
         self.error(path + (key,), f"'{key}' must be a date, got '{echo(value)}'", "write it as YYYY-MM-DD")
         return None
 
+    def flag(self, data: dict, key: str, path=()) -> bool | None:
+        value = data.get(key)
+        if value is None or isinstance(value, bool):
+            return value
+        self.error(path + (key,), f"'{key}' must be true or false, got '{echo(value)}'", "write true or false")
+        return None
+
     def mapping(self, data, path, name) -> dict:
         if data is None:
             return {}
@@ -157,6 +164,8 @@ class Checker:
             return [self.fields(item.items, raw, at) for at, raw in self.items(data.get(item.name), where, item.name)]
         if item.kind == "raw":
             return data.get(item.name)
+        if item.kind == "flag":
+            return self.flag(data, item.name, path)
         raw = data.get(item.name)
         value = self.text(data, item.name, path, item.required, item.limit)
         if raw is None or (value == "" and raw != ""):
@@ -264,6 +273,7 @@ class Checker:
 
     def results(self, data) -> list[Result]:
         out = []
+        marked = None
         for path, raw in self.items(data, ("results",), "results"):
             values = self.fields(sections.RESULT, raw, path)
             sweep = [YawPoint(**point) for point in values["yaw_sweep"]
@@ -271,11 +281,37 @@ class Checker:
             files = tuple((f["file"], f["sha256"], f["role"]) for j, f in enumerate(values["files"])
                           if f["file"] and self.safe_file(f["file"], path + ("files", j, "file"), RESULT_SUFFIXES,
                                                           "result file"))
+            if values["of_record"]:
+                if marked is not None:
+                    self.error(path + ("of_record",), f"results[{marked}] is already the result of record",
+                               "mark one result of_record: true, and remove the mark from the others")
+                marked = path[-1]
             if values["cd"] is not None and values["kind"] in RESULT_KINDS:
                 out.append(Result(**{**values, "label": values["label"] or f"{values['kind']} {path[-1] + 1}",
-                                     "scale": values["scale"] or 1.0, "files": files,
-                                     "yaw_sweep": tuple(sorted(sweep, key=lambda p: p.yaw))}))
+                                     "scale": values["scale"] or 1.0, "files": files, "of_record": bool(values["of_record"]),
+                                     "yaw_sweep": tuple(sorted(sweep, key=lambda p: p.yaw)),
+                                     **self.convergence(values, path)}))
         return out
+
+    def convergence(self, values: dict, path) -> dict:
+        """A history's statistics, whole or not at all: rows counted in whole numbers, and the
+        rows and settled window beside the coefficients (as ``results history --sheet`` writes them)."""
+        rows = {}
+        for key in ("history_rows", "settled_rows"):
+            if values[key] is not None and values[key] != int(values[key]):
+                self.error(path + (key,), f"'{key}' must be a whole number of rows, got {values[key]:g}",
+                           "write it again with aeroreview results history --sheet")
+            rows[key] = None if values[key] is None else int(values[key])
+        stats = tuple((c["coefficient"], c["std_error"], c["drift"]) for c in values["convergence"]
+                      if c["coefficient"] and None not in (c["std_error"], c["drift"]))
+        missing = [key for key in ("history_rows", "settled_rows", "settled_from") if values[key] is None]
+        if stats and missing:
+            self.error(path + ("convergence",), f"a history's convergence statistics need {', '.join(missing)} too",
+                       "write them again with aeroreview results history --sheet")
+        if stats and not missing and rows["settled_rows"] > rows["history_rows"]:
+            self.error(path + ("settled_rows",), "more settled rows than the history has",
+                       "write them again with aeroreview results history --sheet")
+        return {**rows, "convergence": stats}
 
     def waivers(self, data) -> list[Waiver]:
         out = []

@@ -77,6 +77,10 @@ def render(vehicle_id: str, vehicle_class: str, revision: str = "r1", today: _dt
         "also on the wheelbase, about mid-wheelbase on the ground; cpm positive nose-up, our convention; cs and cym "
         "keep one sign convention per sweep, the rules fold them with the sign of yaw), yaw_sweep (yaw positive "
         "either side; one side is mirrored; each point: yaw, cd and any of cl_front, cl_rear, cs, cym, cpm)",
+        "# Say how each result was taken: wheels (rotating, fixed, none) and ground (moving, fixed);",
+        "# wheel and underbody fixes are costed on the result of record (data.ground-simulation).",
+        "# Mark the one the review uses with of_record: true (one per sheet); without a mark the",
+        "# review takes full-scale tunnel or road, then CFD, then model-scale tunnel, then estimates.",
         "waivers: []  # accepted findings: rule, reason, by, expires",
         "notes: ''",
         "attachments: []  # images: file (relative to this sheet), zone, caption",

@@ -10,7 +10,9 @@ findings all count through one formula, and unchanged ones cancel except for how
 share a budget with the ones that changed. Rules assessed in only one of the two
 revisions say nothing about the change and are left out.
 
-Each revision's result is, for now, the first result of the matching kind in its sheet.
+Each pair compares results of record (:func:`aeroreview.rules.result_quality.result_of_record`):
+the child's result of record among its measured results, and the parent's among its results
+that match it (kind, scale, speed), so a marked result is used wherever it can be.
 """
 
 from __future__ import annotations
@@ -19,6 +21,7 @@ from dataclasses import dataclass
 
 from aeroreview.estimate import Frame, claim_of, combined, rescaled
 from aeroreview.rules import NOT_ASSESSED
+from aeroreview.rules.result_quality import result_of_record
 
 SPEED_TOLERANCE = 0.10  # same-speed pairs: within 10 % (the review's convention, common practice)
 MEASURED_KINDS = ("cfd", "tunnel", "road")  # estimates are not measurements
@@ -50,15 +53,13 @@ class Pair:
 
 
 def matching_results(parent, child):
-    """The first same-kind, same-scale results of two sheets at speeds within 10 %, or None."""
-    for kind in dict.fromkeys(r.kind for r in child.results if r.kind in MEASURED_KINDS):
-        mine = next(r for r in child.results if r.kind == kind)
-        theirs = next((r for r in parent.results if r.kind == kind), None)
-        if theirs is None or theirs.scale != mine.scale or None in (theirs.speed, mine.speed):
-            continue
-        if abs(mine.speed - theirs.speed) <= SPEED_TOLERANCE * theirs.speed:
-            return theirs, mine
-    return None
+    """The parent's and the child's results of record that can be compared, or None."""
+    mine = result_of_record([r for r in child.results if r.kind in MEASURED_KINDS])
+    if mine is None or mine.speed is None:
+        return None
+    theirs = result_of_record([r for r in parent.results if r.kind == mine.kind and r.scale == mine.scale
+                               and r.speed is not None and abs(mine.speed - r.speed) <= SPEED_TOLERANCE * r.speed])
+    return None if theirs is None else (theirs, mine)
 
 
 def predicted_change(parent_review, child_review, frame: Frame) -> tuple[float, float, float]:

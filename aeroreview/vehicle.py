@@ -10,7 +10,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from aeroreview.calc.roadload import FUEL_HEATING_VALUE, ROTATING_MASS_FACTOR, Vehicle
-from aeroreview.rules.data import measured_cd
+from aeroreview.rules.result_quality import measured_cd
 
 if TYPE_CHECKING:  # the sheet checks waivers against the rules: import it for types only
     from aeroreview.sheet import Sheet

@@ -353,6 +353,7 @@ from aeroreview.rules import (  # noqa: E402,F401
     data,
     front,
     rear,
+    result_quality,
     sides,
     stability,
     surface_agreement,

@@ -7,20 +7,7 @@ import math
 from aeroreview.calc.forces import reynolds_number
 from aeroreview.display import COUNTS, KM_H
 from aeroreview.rules import COMMON, Source, Threshold, major, not_assessed, passed, rule
-
-
-def measured_cd(sheet) -> tuple[float, str] | None:
-    """The revision's best drag coefficient and where it came from.
-
-    Preference: full-scale tunnel or road, then CFD, then model-scale tunnel, then estimates;
-    the first listed result wins within a kind.
-    """
-    order = {"road": 0, "tunnel": 1, "cfd": 2, "estimate": 4}
-    ranked = sorted(sheet.results, key=lambda r: order[r.kind] + (2 if r.kind == "tunnel" and r.scale < 1 else 0))
-    if not ranked:
-        return None
-    best = ranked[0]
-    return best.cd, f"{best.kind}: {best.label}"
+from aeroreview.rules.result_quality import measured_cd
 
 
 # Drag coefficient ranges of current production bodies by class (low, high); see CD_SOURCE.
@@ -71,7 +58,7 @@ def frontal_area(sheet, ctx):
       needs=("vehicle.class",), sources=(CD_SOURCE,))
 def cd_plausible(sheet, ctx):
     """
-    What it checks: that the revision's drag coefficient (its best result) lies in the usual
+    What it checks: that the revision's drag coefficient (its result of record) lies in the usual
     range for its body class.
 
     Why it matters: a Cd far outside its class usually means a wrong reference area, a
@@ -244,46 +231,6 @@ def measured_drag(sheet, ctx):
         return passed("a measured or computed result exists", measured=", ".join(kinds))
     return major("no CFD, tunnel or road result: the absolute figures rest on an estimate",
                  measured=", ".join(kinds) or "no results", limit="cfd, tunnel or road")
-
-
-# -- convergence of a CFD coefficient history (aeroreview results history) -------------
-DRAG_RESOLUTION = Source("a review resolves differences of about 1 drag count (0.001), the accuracy the AIAA "
-                         "Drag Prediction Workshops aimed at; a 95 % band of +-2 standard errors within +-1 count "
-                         "needs a standard error of 0.5 counts; recalled", "from memory")
-CONVERGENCE_THRESHOLDS = (
-    Threshold("std_error", "0.0005", "", "standard error of a settled drag mean (0.5 counts)", DRAG_RESOLUTION),
-    Threshold("lift_std_error", "0.001", "", "standard error of a settled lift or side-force mean (1 count)", COMMON),
-    Threshold("drift", "0.001", "", "drift of a settled mean coefficient per 1000 iterations (1 count)", COMMON),
-    Threshold("settled_rows", "200", "", "rows of the settled part needed to trust its statistics", COMMON),
-)
-
-
-def convergence_limits() -> dict[str, float]:
-    """The convergence thresholds at their defaults, by name."""
-    return {t.name: t.parse(t.default) for t in CONVERGENCE_THRESHOLDS}
-
-
-def convergence_reasons(stats: dict[str, dict], settled_rows: int, limits: dict[str, float]) -> list[str]:
-    """Why a history is not converged (empty when it is).
-
-    ``stats`` maps a coefficient (cd, cl, ...) to its ``std_error`` and ``drift_per_1000``
-    (coefficient units), ``settles`` (MSER-5 ended the transient in the first half of the
-    run; White 1997 takes a later end as a run too short to settle) and ``transient_end``.
-    """
-    reasons = []
-    if settled_rows < limits["settled_rows"]:
-        reasons.append(f"the settled part has {settled_rows} rows, fewer than {limits['settled_rows']:.0f}")
-    for key, s in stats.items():
-        if not s["settles"]:
-            reasons.append(f"{key}: the start-up transient has not ended (MSER-5 puts its end at "
-                           f"{s['transient_end']:g}, in the second half of the run)")
-        limit = limits["std_error"] if key == "cd" else limits["lift_std_error"]
-        if s["std_error"] > limit:
-            reasons.append(f"{key}: standard error {COUNTS(s['std_error'], 2)}, over {COUNTS.number(limit, None)}")
-        if abs(s["drift_per_1000"]) > limits["drift"]:
-            reasons.append(f"{key}: drift {COUNTS(s['drift_per_1000'], 2, signed=True)} per 1000 iterations, "
-                           f"over {COUNTS.number(limits['drift'], None)}")
-    return reasons
 
 
 CORRELATION_SOURCE = Source("full-vehicle CFD and full-scale tunnel drag of one configuration usually agree within "

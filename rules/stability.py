@@ -16,6 +16,7 @@ from aeroreview.calc.forces import axle_lift, axle_load_share, kilograms_force
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
 from aeroreview.display import KG, KM_H, PERCENT, Reading
 from aeroreview.rules import COMMON, Source, Threshold, major, minor, not_assessed, passed, rule
+from aeroreview.rules.result_quality import result_of_record
 
 LIFT_SOURCE = Source("axle unloading limits for road cars at top speed; from memory (Hucho 1998, driving stability, "
                      "chapter not checked), to be set per program", "from memory")
@@ -24,9 +25,8 @@ STRICT_FACTOR = 2 / 3  # the tighter limits: two thirds of the usual shares (fro
 
 
 def lift_result(sheet):
-    """The result with both axle lift coefficients, preferring full scale; None if there is none."""
-    with_lift = [r for r in sheet.results if r.cl_front is not None and r.cl_rear is not None]
-    return min(with_lift, key=lambda r: (r.scale < 1, r.kind == "estimate"), default=None)
+    """The result of record among those with both axle lift coefficients; None if there is none."""
+    return result_of_record([r for r in sheet.results if r.cl_front is not None and r.cl_rear is not None])
 
 
 @dataclass(frozen=True)

@@ -15,7 +15,7 @@ import pytest
 from statsmodels.tsa.stattools import acf
 
 from aeroreview.results import history
-from aeroreview.rules.data import convergence_limits, convergence_reasons
+from aeroreview.rules.result_quality import Convergence, convergence_limits, convergence_reasons
 
 
 def ar1(n: int, phi: float, sigma: float, rng, replicas: int | None = None) -> np.ndarray:
@@ -72,8 +72,8 @@ def test_mser_finds_a_level_shift():
     rng = np.random.default_rng(5)
     series = 0.3 + rng.normal(0, 0.002, 3000)
     series[:500] += 0.04
-    end, settles = history.mser_truncation(series)
-    assert settles and 500 <= end <= 600  # all of the bias removed, at most a few noisy batches more
+    end = history.mser_truncation(series)
+    assert 500 <= end <= 600  # all of the bias removed, at most a few noisy batches more
     batches = series.reshape(-1, 5).mean(axis=1)  # the rule's definition, evaluated directly
     g = [np.sum((batches[d:] - batches[d:].mean()) ** 2) / (len(batches) - d) ** 2 for d in range(len(batches) - 5)]
     assert end == 5 * int(np.argmin(g))
@@ -130,9 +130,19 @@ def test_unsettled_run_is_not_converged(tmp_path):
 @pytest.mark.parametrize("error, expected", [(0.0005, []), (0.000501, ["standard error"])])
 def test_convergence_threshold_boundary(error, expected):
     """The data-quality thresholds: 0.5 counts of standard error on Cd passes, just above fails."""
-    stats = {"cd": {"std_error": error, "drift_per_1000": 0.0, "settles": True, "transient_end": 10.0}}
-    reasons = convergence_reasons(stats, 500, convergence_limits())
+    reasons = convergence_reasons(Convergence(1000, 500, 501, (("cd", error, 0.0),)), convergence_limits())
     assert [r for r in expected if not any(r in got for got in reasons)] == [] and len(reasons) == len(expected)
+
+
+@pytest.mark.parametrize("rows, start, settles", [(1000, 500, True), (1000, 505, False), (1003, 500, True),
+                                                  (1009, 505, False), (1014, 505, True)])
+def test_transient_end_in_the_first_half_is_whites_criterion(rows, start, settles):
+    """White 1997: with k batches of 5, a truncation at batch d* > k // 2 means the run is too short.
+    The rule checks the end row against half the rows; both agree on every run length."""
+    k, d = rows // 5, start // 5
+    assert (d <= k // 2) == settles
+    reasons = convergence_reasons(Convergence(rows, rows - start, float(start), ()), convergence_limits())
+    assert (not any("has not ended" in r for r in reasons)) == settles
 
 
 def test_columns_found_by_name_or_given(tmp_path, cli):

@@ -294,4 +294,4 @@ def test_model_reynolds_worked_example():
 
 
 # The result data-quality rules have their passing, failing and boundary cases in tests/test_results_rules.py.
-SPECIAL.update({"data.cfd-tunnel-correlation"})
+SPECIAL.update({"data.cfd-tunnel-correlation", "data.result-of-record", "data.ground-simulation", "data.convergence"})

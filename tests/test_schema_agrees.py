@@ -41,9 +41,10 @@ def _base() -> dict:
 BASE = _base()
 # Where each section's first mapping sits in the base sheet.
 HOLDERS = {"sheet": (), "results": ("results", 0), "yaw_sweep": ("results", 0, "yaw_sweep", 0),
-           "waivers": ("waivers", 0), "attachments": ("attachments", 0), "geometry": ("geometry",)}
+           "waivers": ("waivers", 0), "attachments": ("attachments", 0), "geometry": ("geometry",),
+           "convergence": ("results", 1, "convergence", 0)}
 SECTIONS = (sections.TOP_LEVEL, sections.RESULT, sections.YAW_POINT, sections.WAIVER, sections.ATTACHMENT,
-            sections.GEOMETRY)
+            sections.GEOMETRY, sections.CONVERGENCE)
 
 
 def checker_accepts(data: dict) -> bool:
@@ -76,6 +77,11 @@ def field_mutations(item: sections.Field):
             yield "above the high bound", high + 0.01 * span, True
         yield "as text with its unit", f"{_inside(1.0, item.bounds or (1, 1)):g} {item.unit}".strip(), False
         yield "as a list", [1], True
+    elif item.kind == "flag":
+        yield "as true", True, False
+        yield "as false", False, False
+        yield "as a word", "yes please", True
+        yield "as a number", 1, True
     elif item.kind == "date":
         yield "as a quoted ISO date", "2026-10-30", False
         yield "as a date", datetime.date(2026, 10, 30), False

@@ -22,7 +22,7 @@ def test_lift_figure_and_key_numbers_show_the_same_front_lift_with_a_reference_a
     as a mass L / g0 with g0 = 9.80665 m/s^2 (ISO 80000-3); A_ref = 1.5 x the frontal area here.
     """
     text = (VEHICLES / "tessel/r2.yaml").read_text(encoding="utf-8").split("\ngeometry:")[0]
-    text = text.replace("    cl_rear: 0.04\n", "    cl_rear: 0.04\n    reference_area: 3.36 m^2\n", 1)
+    text = text.replace("    of_record: true\n", "    of_record: true\n    reference_area: 3.36 m^2\n", 1)  # the lift used
     shutil.copytree(VEHICLES / "tessel/cfd", tmp_path / "tessel/cfd")  # the result files the sheet names
     (tmp_path / "tessel/r2.yaml").write_text(text, encoding="utf-8")
     settings = Settings(root=ROOT)

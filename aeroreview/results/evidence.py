@@ -75,8 +75,9 @@ class BuildupChange:
     total_counts: float
 
 
-def history_figure(path: Path, label: str) -> HistoryFigure:
-    result = history.settle(history.read_history(path))
+def history_figure(path: Path, label: str, limits: dict[str, float] | None = None) -> HistoryFigure:
+    """The figure of a history, its verdict judged by ``limits`` (the team's, else the defaults)."""
+    result = history.settle(history.read_history(path), limits)
     h = result.history
     step = max(1, len(h.steps) // FIGURE_POINTS)
     return HistoryFigure(

@@ -10,8 +10,8 @@ Conference, 755-760). Over the settled part each coefficient gets its mean, the 
 error of that mean with the autocorrelation taken into account (effective sample size from
 Geyer's initial monotone sequence estimator: Geyer 1992, "Practical Markov chain Monte
 Carlo", Statistical Science 7(4), 473-483), the drift (least-squares slope) and the
-peak-to-peak oscillation. The verdict's thresholds belong to the data-quality rules
-(:func:`aeroreview.rules.data.convergence_reasons`).
+peak-to-peak oscillation. The verdict is the data-quality rule's own judgement
+(:func:`aeroreview.rules.result_quality.convergence_reasons`) of the statistics the sheet keeps.
 """
 
 from __future__ import annotations
@@ -24,6 +24,7 @@ from pathlib import Path
 import numpy as np
 
 from aeroreview.problems import InputError, Problem
+from aeroreview.rules.result_quality import Convergence, convergence_limits, convergence_reasons
 
 COUNT = 0.001  # one drag count (common practice, as aeroreview.calc.forces.COUNT)
 MSER_BATCH = 5  # batch size of MSER-5 (White, Cobb & Spratt 2000)
@@ -69,8 +70,6 @@ class Coefficient:
     drift_per_1000: float  # coefficient units per 1000 iterations (per 1000 samples for time histories)
     drift_per_time: float | None  # coefficient units per unit of time, for time histories
     peak_to_peak: float
-    transient_end: int  # row where MSER-5 puts this coefficient's transient end
-    settles: bool  # MSER-5 found the transient end in the first half of the run
 
 
 @dataclass
@@ -93,6 +92,18 @@ class Settled:
     @property
     def verdict(self) -> str:
         return "not converged" if self.reasons else "converged"
+
+    @property
+    def statistics(self) -> Convergence:
+        """What the verdict reads, rounded as the sheet keeps it, so a sheet's data.convergence
+        finding and this verdict are one judgement of the same numbers."""
+        return Convergence(len(self.history.steps), len(self.history.steps) - self.start, self.settled_from,
+                           tuple((key, _kept(c.std_error), _kept(c.drift_per_1000))
+                                 for key, c in self.coefficients.items()))
+
+
+def _kept(value: float) -> float:
+    return float(f"{value:.4g}")  # 4 significant digits: a sheet's statistic, far finer than its thresholds
 
 
 # -- reading ---------------------------------------------------------------------------
@@ -247,16 +258,17 @@ def _numbers(data: list[tuple[int, str]], width: int, comma: bool, name: str, he
 
 
 # -- statistics ------------------------------------------------------------------------
-def mser_truncation(series: np.ndarray, batch: int = MSER_BATCH) -> tuple[int, bool]:
-    """MSER-m transient end (row index) and whether it lies in the first half of the run.
+def mser_truncation(series: np.ndarray, batch: int = MSER_BATCH) -> int:
+    """MSER-m transient end (row index).
 
     Batch means Z_1..Z_k of ``batch`` rows; d* minimises g(d) = sum_{j>d} (Z_j - mean_d)^2 / (k - d)^2,
     the squared marginal standard error of the truncated mean (White 1997). A d* past k/2
-    means the run is too short for the transient to have ended (White 1997).
+    means the run is too short for the transient to have ended (White 1997); for batches of 5,
+    d* <= k // 2 exactly when the end row is at most half the rows, which the rule checks.
     """
     k = len(series) // batch
     if np.ptp(series) == 0:
-        return 0, True  # a constant series has no transient (and g(d) = 0 everywhere)
+        return 0  # a constant series has no transient (and g(d) = 0 everywhere)
     means = np.asarray(series[:k * batch], dtype=float).reshape(k, batch).mean(axis=1)
     remaining = np.arange(k, 0, -1, dtype=float)  # k - d for d = 0..k-1
     total = np.cumsum(means[::-1])[::-1]
@@ -264,8 +276,7 @@ def mser_truncation(series: np.ndarray, batch: int = MSER_BATCH) -> tuple[int, b
     shift = total / remaining - means.mean()
     spread = squares - remaining * shift**2
     g = spread / remaining**2
-    d = int(np.argmin(g[:k - MSER_TAIL]))
-    return d * batch, d <= k // 2
+    return int(np.argmin(g[:k - MSER_TAIL])) * batch
 
 
 def autocorrelation(x: np.ndarray) -> np.ndarray:
@@ -294,7 +305,7 @@ def effective_sample_size(x: np.ndarray) -> float:
     return n / tau
 
 
-def _coefficient(steps, series, start, is_time, transient_end, settles) -> Coefficient:
+def _coefficient(steps, series, start, is_time) -> Coefficient:
     part, where = series[start:], steps[start:]
     size = effective_sample_size(part)
     slope = float(np.polyfit(where - where[0], part, 1)[0]) if np.ptp(where) > 0 else 0.0
@@ -302,29 +313,30 @@ def _coefficient(steps, series, start, is_time, transient_end, settles) -> Coeff
     return Coefficient(
         mean=float(part.mean()), std_error=float(part.std(ddof=1) / np.sqrt(size)), effective_size=size,
         drift_per_1000=slope * 1000 * (spacing if is_time else 1.0),
-        drift_per_time=slope if is_time else None, peak_to_peak=float(np.ptp(part)),
-        transient_end=transient_end, settles=settles)
+        drift_per_time=slope if is_time else None, peak_to_peak=float(np.ptp(part)))
+
+
+def team_limits(settings) -> dict[str, float] | None:
+    """The data.convergence thresholds of ``settings`` (with the team's overrides), so a verdict
+    shown anywhere is the one ``check`` gives; None (the defaults) when the rule is disabled."""
+    return next((context.thresholds for rule, context, _ in settings.rule_plan if rule.id == "data.convergence"), None)
 
 
 def settle(history: History, limits: dict[str, float] | None = None) -> Settled:
     """Find the settled part of ``history`` and judge its coefficients (thresholds: ``limits``,
-    default the data-quality rule's)."""
-    from aeroreview.rules.data import convergence_limits, convergence_reasons
-
+    default the data.convergence rule's)."""
     rows = len(history.steps)
     needed = MIN_BATCHES * MSER_BATCH
     if rows < needed:
         raise refuse(history.file, f"the run has {rows} rows; MSER-5 needs at least {needed} "
                       f"({MIN_BATCHES} batches of {MSER_BATCH}) to find the end of the start-up transient",
                       "give the whole history, or run longer")
-    ends = {key: mser_truncation(series) for key, series in history.values.items()}
-    start = max(end for end, _ in ends.values())
-    coefficients = {key: _coefficient(history.steps, series, start, history.is_time, *ends[key])
+    start = max(mser_truncation(series) for series in history.values.values())
+    coefficients = {key: _coefficient(history.steps, series, start, history.is_time)
                     for key, series in history.values.items()}
-    stats = {key: {"std_error": c.std_error, "drift_per_1000": c.drift_per_1000, "settles": c.settles,
-                   "transient_end": float(history.steps[c.transient_end])} for key, c in coefficients.items()}
-    reasons = convergence_reasons(stats, rows - start, limits or convergence_limits())
-    return Settled(history, start, coefficients, reasons)
+    result = Settled(history, start, coefficients)
+    result.reasons = convergence_reasons(result.statistics, limits or convergence_limits())
+    return result
 
 
 def as_json(result: Settled) -> dict:

@@ -4,8 +4,9 @@ Each command makes one entry of the sheet's ``results``: the coefficients, and `
 the file it was read from with its sha256 (and, for a surface, the build-up CSV written
 beside the sheet), so a reviewer can tell which run a number came from and whether the file
 changed since. A history adds its settled window and the statistics the convergence rule
-judges. The entry that already names the same file is updated in place; any other entry,
-and every other line of the sheet, is left as it was (:func:`aeroreview.sheetedit.edit_sheet`).
+judges (:class:`aeroreview.rules.result_quality.Convergence`). The entry that already names
+the same file is updated in place; any other entry, and every other line of the sheet, is
+left as it was (:func:`aeroreview.sheetedit.edit_sheet`).
 """
 
 from __future__ import annotations
@@ -31,15 +32,17 @@ def _coefficient(value: float | None) -> float | None:
 
 
 def history_entry(result: Settled, name: str, digest: str) -> dict:
-    """The sheet entry of a settled history (``name`` as the sheet names the file)."""
+    """The sheet entry of a settled history (``name`` as the sheet names the file), with the
+    statistics its verdict read, so the sheet's data.convergence finding repeats that verdict."""
     c = result.coefficients
+    stats = result.statistics
     entry = {"kind": "cfd", "label": f"history {Path(name).name}"}
     entry.update({key: _coefficient(c[key].mean) for key in ("cd", "cl_front", "cl_rear", "cs") if key in c})
-    cd = c.get("cd")
     entry.update({key: int(value) if float(value).is_integer() else value
                   for key, value in (("settled_from", result.settled_from), ("settled_to", result.settled_to))})
-    if cd is not None:
-        entry.update({"std_error": round(cd.std_error, 7), "drift": round(cd.drift_per_1000, 7)})
+    entry.update(history_rows=stats.history_rows, settled_rows=stats.settled_rows,
+                 convergence=[{"coefficient": key, "std_error": error, "drift": drift}
+                              for key, error, drift in stats.coefficients])
     entry["files"] = [{"file": name, "sha256": digest, "role": "history"}]
     return entry
 
