@@ -229,7 +229,7 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     ranked = _ranked(findings.values())
     frame = frame_for(sheet, numbers["cd"], settings.estimates, lift and (lift["cl_front"], lift["cl_rear"]),
                       {f.rule.id for f in ranked})
-    claims = [c for c in map(claim_of, ranked + [f for f in findings.values() if f not in ranked]) if c]
+    claims = [c for c in map(claim_of, ranked + [f for f in findings.values() if not f.counts]) if c]
     zones = {zone: _zone_score(zone, findings.values(), claims, frame) for zone in ZONES}
     scored = [f for f in findings.values() if f.rule.zone not in UNSCORED_ZONES]
     overall = score(claims, frame, {f.rule.region for f in scored if f.rule.region}) \
