@@ -49,14 +49,17 @@ def rules_json(reviews: list[Review]) -> dict:
     return rules
 
 
+_KEPT = frozenset((str, int, bool, type(None)))  # leaves rounded() returns unchanged: skipped without a call
+
+
 def rounded(value):
     """Floats cut to 10 significant digits, so a converted 130 km/h reads 130.0, not 130.00000000000003."""
     if isinstance(value, float):
         return float(f"{value:.10g}")
     if isinstance(value, dict):
-        return {key: rounded(item) for key, item in value.items()}
+        return {key: item if type(item) in _KEPT else rounded(item) for key, item in value.items()}
     if isinstance(value, (list, tuple)):
-        return [rounded(item) for item in value]
+        return [item if type(item) in _KEPT else rounded(item) for item in value]
     return value
 
 
