@@ -30,16 +30,17 @@ MEMORY = "from memory"
 BREAKDOWN_SOURCE = Source(
     "shares of a passenger car's drag by region: wheels and wheelhouses up to about 25 % (CMES 2023, "
     "doi:10.32604/cmes.2023.043322, abstract checked), cooling dCd 0.01-0.07, mostly 0.03-0.05 (Katz, Automotive "
-    "Aerodynamics, Wiley 2016, sec. 11; checked), the rest recalled from Hucho 1998 ch. 4", MEMORY)
+    "Aerodynamics, Wiley 2016, p. 538; checked, chapter not checked), the rest recalled from Hucho 1998 (chapter "
+    "not checked)", MEMORY)
 RECOVERABLE_SOURCE = Source("largest share of a region's drag that production fixes recover; our judgment from "
-                            "Hucho 1998 ch. 4 and 11, recalled, not checked", MEMORY)
+                            "Hucho 1998 (chapters not checked), recalled, not checked", MEMORY)
 FLOOR_SOURCE = Source("lowest production Cd of each class: the low end of the class ranges in aeroreview.rules.data "
                       "(common practice); production sedans at about 0.20 per manufacturers' figures in the press, "
                       "checked with a web search", "common practice")
 RAISE_SOURCE = Source("what a fixed tyre width, glass mirrors or ride height cost against the class's best; "
                       "recalled from published production-car comparisons, not checked", MEMORY)
 LIFT_STAKE = 0.20  # smallest lift coefficient at stake per axle: the span of road cars' axle lift, about
-# -0.05 to +0.15, plus margin (from memory, Hucho 1998 ch. 5, not checked)
+# -0.05 to +0.15, plus margin (from memory, Hucho 1998, chapter not checked)
 
 
 @dataclass(frozen=True)

@@ -21,9 +21,10 @@ MAX_TEXT = 20_000  # characters in one free-text field; a note, not a report
 FILE_NAME = r"^(?!/)(?!.*\.\.)[^\\:]+$"  # relative, no "..", no drive or backslash (safe_file checks more)
 MAX_GROUND = 1e6  # |ground| in file units: 1 km in mm, beyond any surface file (common practice)
 RESULT_KINDS = ("cfd", "tunnel", "road", "estimate")
-COEFFICIENT = (-3.0, 3.0)  # road-vehicle lift coefficients lie well inside (from memory: Hucho 1998, ch. 5)
+COEFFICIENT = (-3.0, 3.0)  # road-vehicle force and moment coefficients lie well inside (from memory: Hucho
+#                             1998, chapter not checked)
 DRAG_COEFFICIENT = (0.05, 2.0)  # below any road body; above a flat plate normal to the flow, about 1.2
-#                                 (from memory: Hoerner, Fluid-Dynamic Drag, 1965, ch. 3)
+#                                 (from memory: Hoerner, Fluid-Dynamic Drag, 1965, chapter not checked)
 
 
 @dataclass(frozen=True)
@@ -70,11 +71,18 @@ def _slug(name, required=False) -> Field:
                  pattern_hint="use lowercase letters, digits and inner hyphens only (it becomes a URL and a file name)")
 
 
+# Side force and moments as SAE J1594 (2010) defines them (summary of the standard checked):
+# on the frontal area and, for moments, the wheelbase, about the point on the ground at
+# mid-wheelbase and mid-track. cym is the yawing moment, cpm the pitching moment.
+MOMENTS = (Field("cs", "number", "", COEFFICIENT), Field("cym", "number", "", COEFFICIENT),
+           Field("cpm", "number", "", COEFFICIENT))
+
 YAW_POINT = Section("yaw_sweep", (
     Field("yaw", "number", "deg", (-90, 90), required=True),
     Field("cd", "number", "", DRAG_COEFFICIENT, required=True),
     Field("cl_front", "number", "", COEFFICIENT),
     Field("cl_rear", "number", "", COEFFICIENT),
+    *MOMENTS,
 ))
 
 RESULT_FILE = Section("files", (  # a file a result was read from (aeroreview results ... --sheet)
@@ -96,7 +104,7 @@ RESULT = Section("results", (
     Field("yaw_sweep", "list", items=YAW_POINT),
     Field("date", "date"),
     _text("source", 500),
-    Field("cs", "number", "", COEFFICIENT),  # side force coefficient
+    *MOMENTS,
     Field("settled_from", "number"),  # a history's settled window, in its own first column (results history)
     Field("settled_to", "number"),
     Field("std_error", "number", "", (0.0, 1.0)),  # of the settled Cd mean, autocorrelation counted
@@ -156,6 +164,9 @@ class YawPoint:
     cd: float
     cl_front: float | None = None
     cl_rear: float | None = None
+    cs: float | None = None  # side force, yawing and pitching moment (SAE J1594, see MOMENTS)
+    cym: float | None = None
+    cpm: float | None = None
 
 
 @dataclass(frozen=True)
@@ -173,7 +184,9 @@ class Result:
     yaw_sweep: tuple[YawPoint, ...] = ()
     date: _dt.date | None = None  # when the result was produced
     source: str = ""  # where it comes from (report, run id)
-    cs: float | None = None
+    cs: float | None = None  # side force, yawing and pitching moment (SAE J1594, see MOMENTS)
+    cym: float | None = None
+    cpm: float | None = None
     settled_from: float | None = None
     settled_to: float | None = None
     std_error: float | None = None

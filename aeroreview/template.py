@@ -73,7 +73,10 @@ def render(vehicle_id: str, vehicle_class: str, revision: str = "r1", today: _dt
                 lines.append(f"  # {item.key}:   # {_comment(item)}")
     lines += [
         "results: []  # CFD, tunnel or road results: kind, label, speed, cd, cl_front, cl_rear (lift positive "
-        "upward), yaw_sweep (yaw positive either side; one side is mirrored)",
+        "upward), cs, cym, cpm (side force, yawing and pitching moment as SAE J1594: on the frontal area, moments "
+        "also on the wheelbase, about mid-wheelbase on the ground; cpm positive nose-up, our convention; cs and cym "
+        "keep one sign convention per sweep, the rules fold them with the sign of yaw), yaw_sweep (yaw positive "
+        "either side; one side is mirrored; each point: yaw, cd and any of cl_front, cl_rear, cs, cym, cpm)",
         "waivers: []  # accepted findings: rule, reason, by, expires",
         "notes: ''",
         "attachments: []  # images: file (relative to this sheet), zone, caption",

@@ -23,7 +23,8 @@ DEFAULTS = {
     "powertrain.drivetrain_efficiency": (0.88, "from memory: battery-to-wheel mean of current EV drives"),
     "powertrain.regen_efficiency": (0.6, "from memory: cycle-average share of braking energy recovered"),
     "powertrain.engine_efficiency": (0.30, "from memory: cycle-average brake efficiency of a car engine"),
-    "mass.rotating_mass_factor": (ROTATING_MASS_FACTOR, "from memory (Gillespie 1992, ch. 2)"),
+    "mass.rotating_mass_factor": (ROTATING_MASS_FACTOR, "from memory (Gillespie 1992, on acceleration performance; "
+                                                        "chapter not checked)"),
 }
 
 

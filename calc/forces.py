@@ -12,7 +12,7 @@ import numpy as np
 
 from aeroreview.calc.air import G0
 
-COUNT = 0.001  # one drag count is 0.001 of Cd (common practice, e.g. Hucho 1998, ch. 4)
+COUNT = 0.001  # one drag count is 0.001 of Cd (common practice)
 
 
 def dynamic_pressure(density, speed):
@@ -36,7 +36,7 @@ def drag_force(cd, area, speed, density):
     >>> round(float(drag_force(0.30, 2.2, 100 / 3.6, 1.225)), 1)
     311.9
 
-    Reference: Hucho, Aerodynamics of Road Vehicles, 4th ed. (SAE 1998), ch. 4.
+    Reference: Hucho, Aerodynamics of Road Vehicles, 4th ed. (SAE 1998), on aerodynamic drag (chapter not checked).
     """
     return np.asarray(cd, dtype=float) * np.asarray(area, dtype=float) * dynamic_pressure(density, speed)
 

@@ -11,8 +11,11 @@ rest, the traction energy then equals what rolling resistance, aerodynamic drag 
 brakes dissipate; that split is the energy breakdown. Braking energy returns to the
 battery at the regenerative efficiency.
 
-References: Gillespie, Fundamentals of Vehicle Dynamics (SAE 1992), ch. 4; Guzzella and
-Sciarretta, Vehicle Propulsion Systems, 3rd ed. (Springer 2013), ch. 2.
+References: Gillespie, Fundamentals of Vehicle Dynamics (SAE 1992), the section on road
+loads (chapter not checked); Guzzella and Sciarretta, Vehicle Propulsion Systems, 3rd ed.
+(Springer 2013), the chapter "Vehicle Energy and Fuel Consumption - Basic Concepts" (title
+confirmed on a publisher's reference page, where it is chapter 2; the 3rd edition's numbering
+not checked).
 """
 
 from __future__ import annotations
@@ -28,7 +31,8 @@ from aeroreview.calc.forces import cd_from_counts
 # Lower heating values per litre (JEC Well-to-Wheels report v4a, 2014, fuel properties
 # table: petrol 43.2 MJ/kg at 745 kg/m^3, diesel 43.1 MJ/kg at 832 kg/m^3; from memory).
 FUEL_HEATING_VALUE = {"petrol": 32.2e6, "diesel": 35.9e6}  # J/L
-ROTATING_MASS_FACTOR = 1.03  # typical passenger car in top gear or EV, from memory (Gillespie 1992, ch. 2)
+ROTATING_MASS_FACTOR = 1.03  # typical passenger car in top gear or EV, from memory (Gillespie 1992, on
+# acceleration performance; chapter not checked)
 KWH = 3.6e6  # J
 
 
@@ -72,7 +76,8 @@ def tractive_force(speed, acceleration, vehicle: Vehicle, density: float, grade:
     >>> round(float(tractive_force(100 / 3.6, 0.0, car, 1.225)), 1)
     470.8
 
-    Reference: Gillespie (1992), ch. 4, eq. 4-1 with the inertia term of ch. 2.
+    Reference: Gillespie (1992), the road-load equation with the inertia term of acceleration
+    performance (chapter and equation numbers not checked).
     """
     v = np.asarray(speed, dtype=float)
     moving = (v > 0).astype(float)

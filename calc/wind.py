@@ -10,9 +10,11 @@ directions with equal weight and dividing by the still-air dynamic pressure:
 
 For a yaw-independent Cd this gives Cd (1 + w^2 / V^2) exactly (tests derive it).
 
-References: SAE J1252, SAE Wind Tunnel Test Procedure for Trucks and Buses (1981), which
-defines the wind-averaged drag coefficient for a mean wind of 7 mph (3.13 m/s; from memory);
-Hucho, Aerodynamics of Road Vehicles, 4th ed. (SAE 1998), ch. 4 (crosswind and yaw).
+References: SAE J1252, Wind Tunnel Test Procedure for Trucks and Buses (title, and the
+wind-averaged drag derivation of its 2012 revision, confirmed on a summary of the standard; the
+1981 first issue and the mean wind of 7 mph, 3.13 m/s, recalled, not checked); Hucho,
+Aerodynamics of Road Vehicles, 4th ed. (SAE 1998), the section on crosswind and yaw (chapter
+not checked).
 """
 
 from __future__ import annotations
@@ -57,7 +59,7 @@ def wind_averaged_cd(yaw, cd, vehicle_speed: float, wind_speed: float = J1252_WI
     >>> round(wind_averaged_cd(np.radians([0, 10]), [0.30, 0.30], 100 / 3.6), 4)
     0.3038
 
-    Reference: SAE J1252 (1981); see the module docstring for the derivation.
+    Reference: SAE J1252; see the module docstring for the derivation and what was checked.
     """
     if vehicle_speed <= 0 or wind_speed < 0:
         raise ValueError("vehicle speed must be positive and wind speed not negative")

@@ -10,7 +10,8 @@ from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Sensitiv
 
 AHMED = Source(AHMED_SOURCE + ", SAE Transactions 93 (1984) 473-503 (title/authors/year/venue and abstract checked "
                "on a copy of the first page): critical slant angle about 30 deg, drag peak just below it; curve "
-               "values recalled, see aeroreview.calc.references", "published")
+               "values: 25 deg quoted by a secondary source, the rest recalled, see aeroreview.calc.references",
+               "published")
 BAND = Source("practitioner's margin of about 4 deg around the published ~30 deg critical angle of the Ahmed body "
               "(Ahmed et al. 1984), with the drag rise beginning near 21 deg; the band itself is common practice, "
               "not a published figure", "common practice")

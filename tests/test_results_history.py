@@ -1,7 +1,7 @@
 """Coefficient histories: statistics against closed forms, the settling rule, bad input.
 
 References named in each test: the AR(1) process (Box, Jenkins & Reinsel, Time Series
-Analysis, 4th ed., ch. 3: rho_k = phi^k) with its integrated autocorrelation time
+Analysis, 4th ed., on AR(1) (chapter not checked): rho_k = phi^k) with its integrated autocorrelation time
 (1 + phi) / (1 - phi) and its exact variance of the mean; statsmodels' acf as an independent
 autocorrelation; White 1997 (MSER) for the truncation of a level shift.
 """
@@ -57,7 +57,7 @@ def test_autocorrelation_matches_statsmodels():
 
 def test_standard_error_matches_exact_variance_of_the_mean_of_ar1():
     """Var(mean) of AR(1) with marginal variance s2: (s2 / n) [1 + 2 sum_{k<n} (1 - k/n) phi^k], closed form
-    (s2 / n) [(1 + phi) / (1 - phi) - 2 phi (1 - phi^n) / (n (1 - phi)^2)] (Box, Jenkins & Reinsel, ch. 3)."""
+    (s2 / n) [(1 + phi) / (1 - phi) - 2 phi (1 - phi^n) / (n (1 - phi)^2)] (Box, Jenkins & Reinsel, chapter not checked)."""
     n, phi, sigma, replicas = 2000, 0.8, 1.0, 600
     s2 = sigma**2 / (1 - phi**2)
     exact = s2 / n * ((1 + phi) / (1 - phi) - 2 * phi * (1 - phi**n) / (n * (1 - phi) ** 2))

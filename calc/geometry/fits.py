@@ -64,7 +64,7 @@ def fit_circle(x, y) -> CircleFit:
     (0.1, [0.3, 0.2])
 
     References: Kasa, IEEE Trans. Instrum. Meas. 25 (1976) 8-14; Chernov, Circular and
-    Linear Regression (CRC 2010), ch. 4-5 (geometric fit).
+    Linear Regression (CRC 2010), on the geometric fit (chapter not checked).
     """
     x, y = np.asarray(x, float), np.asarray(y, float)
     if len(x) < 3:
