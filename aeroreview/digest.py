@@ -10,19 +10,19 @@ lift figure, the key-number table and the stability rules show one number.
 
 from __future__ import annotations
 
-import hashlib
-import json
 import math
-from dataclasses import dataclass, field
+from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
 import numpy as np
 
-from aeroreview import catalogue
+from aeroreview import catalogue, sheetsurface
 from aeroreview.baseline import leading_number
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.references import AHMED_ATTACHED, AHMED_SEPARATED, AHMED_SOURCE
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
+from aeroreview.memo import Memo
+from aeroreview.memo import key as memo_key
 from aeroreview.problems import InputError
 from aeroreview.results import evidence
 from aeroreview.results.evidence import Buildup, BuildupChange, HistoryFigure
@@ -200,36 +200,30 @@ def zone_status(review: Review) -> dict[str, str]:
     return worst
 
 
-def measured_geometry(sheet, cache_folder: Path | None) -> dict:
-    """Silhouette and section figure data of a sheet's surface, cached by the file's hash."""
-    from aeroreview import measure
-
-    geometry = sheet.geometry
-    path = Path(sheet.path).parent / geometry.file
-    digest = hashlib.sha256(path.read_bytes() + repr(geometry).encode()).hexdigest()[:24]
-    cached = cache_folder / f"{digest}.json" if cache_folder else None
-    if cached and cached.is_file():
-        return json.loads(cached.read_text(encoding="utf-8"))
-    result = measure.measure(measure.load_surface(path, geometry.units, geometry.nose, geometry.up, geometry.ground))
-    data = {"silhouette": measure.silhouette_data(result), "sections": measure.sections_data(result)}
-    if cached:
-        cached.parent.mkdir(parents=True, exist_ok=True)
-        cached.write_text(json.dumps(data), encoding="utf-8")
-    return data
+SETTLING = ("aeroreview.results.evidence", "aeroreview.results.history")  # the code whose results are remembered
 
 
-def revision_figures(review: Review, settings: Settings, geometry_cache: Path | None) -> RevisionFigures:
+def measured_geometry(sheet, cache_folder: Path | None) -> dict | None:
+    """Silhouette and section figure data of a sheet's surface (measured once, :mod:`aeroreview.sheetsurface`);
+    None when the surface cannot be measured (its data-quality finding says why)."""
+    found = sheetsurface.measured(sheet, cache_folder)
+    return found.figures if found else None
+
+
+def revision_figures(review: Review, settings: Settings, geometry_cache: Path | None,
+                     memo: Memo | None = None) -> RevisionFigures:
     """The series and reference data of one revision's figures."""
     air = settings.air()
     context = Context({}, settings.reference_speed, air.density, air.kinematic_viscosity)
     speeds, top = _speeds(review)
     sheet = review.sheet
     ahmed = ahmed_curve(settings, sheet.get("rear.backlight_angle")) if sheet.has("rear.backlight_angle") else None
-    geometry = measured_geometry(sheet, geometry_cache) if sheet.geometry else None
+    geometry = measured_geometry(sheet, geometry_cache)
     problems: list[str] = []
     return RevisionFigures(drag_series(review, speeds, air.density), lift_series(review, speeds, top, context), ahmed,
                            yaw_sweep(review, settings.reference_speed), geometry, zone_status(review),
-                           _drawn(problems, result_history, sheet), _drawn(problems, result_buildup, sheet, geometry),
+                           _drawn(problems, result_history, sheet, memo),
+                           _drawn(problems, result_buildup, sheet, geometry, memo),
                            problems)
 
 
@@ -242,20 +236,33 @@ def result_file(sheet, role: str) -> tuple[Path, str] | None:
     return None
 
 
-def result_history(sheet) -> HistoryFigure | None:
+def result_history(sheet, memo: Memo | None = None) -> HistoryFigure | None:
+    """The force history thinned for its figure, remembered by the file's bytes (reading and settling
+    a solver's history takes tens of milliseconds)."""
     found = result_file(sheet, "history")
-    return evidence.history_figure(found[0], f"{sheet.revision}, {found[1]}") if found else None
+    if not found:
+        return None
+    path, label = found[0], f"{sheet.revision}, {found[1]}"
+    data = (memo or Memo(None)).get(memo_key(path.read_bytes(), label, code=SETTLING),
+                                    lambda: asdict(evidence.history_figure(path, label)))
+    return HistoryFigure(**data)
 
 
-def result_buildup(sheet, geometry: dict | None) -> Buildup | None:
-    """The build-up with its zones: from the measured centreline when there is one, else the axles."""
+def result_buildup(sheet, geometry: dict | None, memo: Memo | None = None) -> Buildup | None:
+    """The build-up with its zones: from the measured centreline when there is one, else the axles.
+    The file's curves are remembered by its bytes (reading a table loads pandas, half a second)."""
     found = result_file(sheet, "buildup")
     if not found:
         return None
     silhouette = geometry["silhouette"] if geometry else None
     front, wheelbase = sheet.get("dimensions.front_overhang"), sheet.get("dimensions.wheelbase")
+
+    def read(path: Path) -> list[list[float]]:
+        return (memo or Memo(None)).get(memo_key(path.read_bytes(), code=SETTLING),
+                                        lambda: [curve.tolist() for curve in evidence.read_buildup(path)])
+
     return evidence.buildup(found[0], sheet.revision,
-                            lambda length: evidence.zones_along_x(length, silhouette, front, wheelbase))
+                            lambda length: evidence.zones_along_x(length, silhouette, front, wheelbase), read)
 
 
 def _drawn(problems: list[str], read, *args):

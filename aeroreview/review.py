@@ -20,6 +20,7 @@ from __future__ import annotations
 import datetime as _dt
 from dataclasses import dataclass, field
 
+from aeroreview import sheetsurface
 from aeroreview.calc.cycles import cycle_by_name
 from aeroreview.calc.forces import drag_force
 from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivities
@@ -210,6 +211,8 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     """Review one validated sheet."""
     today = today or _dt.date.today()
     air = settings.air()
+    if sheet.geometry:  # measured once per surface and options (cached), handed to its data-quality rule
+        sheet.surface = sheetsurface.measured(sheet, sheetsurface.cache_folder(settings.root)).values
     findings = {rule.id: run_rule(rule, sheet, context, severity, settings.calibrated)
                 for rule, context, severity in settings.rule_plan if rule.applies(sheet)}
     notices = _apply_waivers(sheet, findings, today)

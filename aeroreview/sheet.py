@@ -33,6 +33,7 @@ from aeroreview import catalogue, sections, yamldoc
 from aeroreview.names import close_match
 from aeroreview.paths import contained_file
 from aeroreview.problems import InputError, Problem
+from aeroreview.rules.surface_agreement import SurfaceValues
 from aeroreview.sections import MAX_TEXT, RESULT_KINDS, Attachment, Geometry, Result, Waiver, YawPoint
 from aeroreview.sheetcheck import IMAGE_SUFFIXES, Checker, Value, combinations, is_placeholder
 
@@ -60,6 +61,7 @@ class Sheet:
     geometry: Geometry | None = None
     warnings: list[Problem] = field(default_factory=list)
     line_of: dict[str, int] = field(default_factory=dict)  # feature or top-level key -> line
+    surface: SurfaceValues | None = None  # its geometry measured, set by the review (aeroreview.sheetsurface)
 
     def get(self, key: str, default=None):
         """The value of feature ``key`` (SI float, word or bool), or ``default`` if absent."""

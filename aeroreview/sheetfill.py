@@ -12,16 +12,9 @@ from __future__ import annotations
 import re
 
 from aeroreview import catalogue
+from aeroreview.rules.surface_agreement import compare
 from aeroreview.sheet import is_placeholder
-from aeroreview.units import UnitProblem, format_quantity, to_si
-
-# How far a sheet value may sit from its surface's measurement before the two disagree.
-# Angles: a surface angle is read to about a degree (common practice). Lengths and areas:
-# 3 % covers a drawing against a surface with trim, seals and mirrors in or out (common
-# practice). Radii: circle fits over a short arc scatter by about a quarter (from memory).
-ANGLE_TOLERANCE_DEG = 1.0
-SIZE_TOLERANCE = 0.03
-RADIUS_TOLERANCE = 0.25
+from aeroreview.units import UnitProblem, to_si
 
 
 def _commented_line(key: str) -> re.Pattern:
@@ -60,22 +53,13 @@ def is_unfilled(features, key: str) -> bool:
     return key not in features or is_placeholder(features[key])
 
 
-def tolerance(key: str, measured: float) -> float:
-    """The disagreement a feature's sheet value may have with its measurement, in SI units."""
-    item = catalogue.feature(key)
-    if item.unit == "deg":
-        return to_si(ANGLE_TOLERANCE_DEG, "deg")
-    return abs(measured) * (RADIUS_TOLERANCE if key.endswith("_radius") else SIZE_TOLERANCE)
-
-
 def disagreement(key: str, raw, measured: float) -> str | None:
-    """"sheet X, surface Y" when the sheet's value ``raw`` differs from the measurement beyond its tolerance."""
-    item = catalogue.feature(key)
+    """"sheet X, surface Y" when the sheet's value ``raw`` differs from the measurement beyond the
+    tolerance of the data-quality rule (:mod:`aeroreview.rules.surface_agreement`, the one declaration)."""
     value = raw.get("value") if isinstance(raw, dict) else raw
     try:
-        sheet = to_si(value, item.unit)
+        sheet = to_si(value, catalogue.feature(key).unit)
     except (UnitProblem, TypeError):
         return None
-    if abs(sheet - measured) <= tolerance(key, measured):
-        return None
-    return f"sheet {format_quantity(sheet, item.unit)}, surface {format_quantity(measured, item.unit)}"
+    found = compare(key, sheet, measured)
+    return None if found.agrees else found.numbers()

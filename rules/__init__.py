@@ -359,6 +359,7 @@ from aeroreview.rules import (  # noqa: E402,F401
     rear,
     sides,
     stability,
+    surface_agreement,
     underbody,
     wheels,
     windshield,

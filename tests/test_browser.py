@@ -233,3 +233,33 @@ def test_file_name_and_svg_payloads_stay_inert(served, browser):
     page.wait_for_timeout(300)
     assert dialogs == [], dialogs
     page.close()
+
+
+# Every text of a figure, as Chromium lays it out with the real font, inside the figure's canvas.
+OUTSIDE = """() => {
+  const svg = document.documentElement, canvas = svg.getBoundingClientRect(), out = [];
+  for (const text of svg.querySelectorAll('text')) {
+    const r = text.getBoundingClientRect();
+    if (text.textContent.trim() && (r.left < canvas.left - 0.5 || r.top < canvas.top - 0.5
+        || r.right > canvas.right + 0.5 || r.bottom > canvas.bottom + 0.5)) out.push(text.textContent);
+  }
+  return {texts: svg.querySelectorAll('text').length, outside: out};
+}"""
+
+
+def test_no_figure_label_or_legend_is_clipped(site, browser):
+    """Figure margins are fixed per kind (no tight box): a title, axis label, tick label, note or
+    legend entry that outgrew them would fall outside the canvas and be cut off."""
+    page = browser.new_page(viewport={"width": 1000, "height": 800})
+    svgs = sorted((site / "figures").glob("*.svg"))
+    clipped, kinds = {}, set()
+    for svg in svgs:
+        page.goto(svg.as_uri())
+        found = page.evaluate(OUTSIDE)
+        assert found["texts"] >= 3, svg.name  # text kept as text: a title and axis labels at least
+        kinds.add(svg.name.rsplit("-", 1)[0])
+        if found["outside"]:
+            clipped[svg.name] = found["outside"]
+    page.close()
+    assert len(kinds) >= 15, kinds  # every kind the demo draws, matplotlib's and the direct SVG charts
+    assert clipped == {}, clipped

@@ -8,7 +8,7 @@ import pytest
 from aeroreview.review import review_sheet
 from aeroreview.settings import Settings
 from aeroreview.sheet import load_fleet
-from aeroreview.site import figures
+from aeroreview.site import figures, svgchart
 from aeroreview.site.figures import FigureCache
 from aeroreview.site.pages import generate
 from conftest import ROOT, VEHICLES
@@ -37,13 +37,16 @@ def test_parallel_and_serial_builds_are_byte_identical(reviews):
     assert serial == parallel
 
 
-def test_cache_key_follows_matplotlib_version_and_style(monkeypatch):
+def test_cache_key_follows_matplotlib_version_and_styles(monkeypatch):
     data = {"zones": ["front"], "scores": [90]}
     before = FigureCache.key("zones", data)
-    monkeypatch.setattr(figures.matplotlib, "__version__", "0.0-other")
+    monkeypatch.setattr(figures, "MATPLOTLIB", "0.0-other")
     assert FigureCache.key("zones", data) != before
     monkeypatch.undo()
     monkeypatch.setitem(figures.STYLE, "font.size", 11)
+    assert FigureCache.key("zones", data) != before
+    monkeypatch.undo()
+    monkeypatch.setitem(svgchart.STYLE, "size", 11)  # the charts written as SVG directly have their own style
     assert FigureCache.key("zones", data) != before
 
 

@@ -150,6 +150,8 @@ def test_demo_surface_gives_back_its_design(tmp_path, revision):
         assert math.degrees(found[key].value) == pytest.approx(expected, abs=0.5), key
     assert found["rear.roof_backlight_radius"].value == pytest.approx(design["roof_radius"], rel=0.05)
     assert found["front.upper_edge_radius"].value == pytest.approx(design["front_radius"], rel=0.05)
+    assert math.degrees(found["underbody.nose_rake"].value) == pytest.approx(design["nose_rake"], abs=0.5)
+    assert found["dimensions.ground_clearance"].value == pytest.approx(design["ground_clearance"], abs=0.002)
 
 
 def test_units_are_inferred_and_said(tmp_path, cli):

@@ -157,6 +157,10 @@ CASES = {
                           ({"dimensions__frontal_area": f"{0.78 * 1.92 * 1.43 + 0.001} m^2"}, "pass"),
                           ({"dimensions__frontal_area": f"{0.78 * 1.92 * 1.43 - 0.001} m^2"}, "warning")),
     "data.contradictions": ({"powertrain__fuel": "petrol"}, "warning", None, None),
+    # Against r2's own surface, whose windshield is built at 27 deg (make_surface.py); tolerance 1 deg.
+    "data.surface-agreement": ({"rear__roof_backlight_radius": "100 mm"}, "warning",
+                               ({"windshield__angle": "27.99 deg"}, "pass"),
+                               ({"windshield__angle": "28.01 deg"}, "warning")),
 }
 
 

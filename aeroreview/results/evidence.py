@@ -116,9 +116,10 @@ def zones_along_x(length: float, silhouette: dict | None = None, front_overhang:
     return [Zone("body", "whole body", 0.0, length)]
 
 
-def buildup(path: Path, label: str, zones_for) -> Buildup:
-    """A build-up read from its file; ``zones_for(length)`` gives the zones along x."""
-    x, cd, cl = read_buildup(path)
+def buildup(path: Path, label: str, zones_for, read=read_buildup) -> Buildup:
+    """A build-up read from its file (by ``read``, e.g. one that remembers); ``zones_for(length)`` gives
+    the zones along x."""
+    x, cd, cl = read(path)
     return Buildup(label, [round(float(v), 4) for v in x], [round(float(v), 6) for v in cd],
                    [round(float(v), 6) for v in cl], zones_for(float(x[-1])))
 

@@ -55,10 +55,11 @@ def profile_function(points: np.ndarray):
     return lambda q: np.interp(q, x[order], z[order])
 
 
-def loft(stations, z_bottom, z_top, half_width, corner_radius: float, ring: int = 64):
+def loft(stations, z_bottom, z_top, half_width, corner_radius, ring: int = 64):
     """A closed body: at each x station a rounded rectangle from z_bottom to z_top and
-    +-half_width, with the given corner radius (capped at half the smaller side); the two
-    ends are closed with flat caps. Returns (vertices, faces).
+    +-half_width, with the given corner radius (one for all stations or one per station,
+    capped at half the smaller side); the two ends are closed with flat caps. Returns
+    (vertices, faces).
 
     The tests check the loft of a box against its volume and frontal area.
     """
@@ -66,9 +67,10 @@ def loft(stations, z_bottom, z_top, half_width, corner_radius: float, ring: int 
     n = len(stations)
     angle = np.linspace(0, 2 * np.pi, ring, endpoint=False)
     rings = []
-    for x, zb, zt, w in zip(stations, z_bottom, z_top, half_width):
+    radii = np.broadcast_to(np.asarray(corner_radius, float), stations.shape)
+    for x, zb, zt, w, corner in zip(stations, z_bottom, z_top, half_width, radii):
         h = max(zt - zb, 1e-6)
-        r = min(corner_radius, 0.5 * h, w) * 0.999
+        r = min(corner, 0.5 * h, w) * 0.999
         y, z = _rounded_rectangle(np.cos(angle), np.sin(angle), w, 0.5 * h, r)
         rings.append(np.column_stack([np.full(ring, x), y, z + 0.5 * (zt + zb)]))
     vertices = np.vstack(rings + [[[stations[0], 0.0, 0.5 * (z_top[0] + z_bottom[0])]],

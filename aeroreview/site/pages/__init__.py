@@ -13,6 +13,7 @@ from __future__ import annotations
 import datetime
 
 from aeroreview import digest, track_record
+from aeroreview.memo import Memo
 from aeroreview.review import Review
 from aeroreview.settings import Settings
 from aeroreview.site.figures import FigureCache
@@ -35,7 +36,7 @@ def by_vehicle(reviews: list[Review]) -> dict[str, list[Review]]:
 
 def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> Site:
     """Every generated file of the site."""
-    out = Output(settings, cache)
+    out = Output(settings, cache, Memo(cache.folder.parent / "aeroreview-data" if cache.folder else None))
     grouped = by_vehicle(reviews)
     geometry_cache = cache.folder.parent / "aeroreview-geometry" if cache.folder else None
     fleet.write(out, grouped)
@@ -46,7 +47,7 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
         vehicle.write(out, vehicle_id, revisions)
         drawn = {}
         for review in revisions:
-            drawn[review.sheet.revision] = digest.revision_figures(review, settings, geometry_cache)
+            drawn[review.sheet.revision] = digest.revision_figures(review, settings, geometry_cache, out.memo)
             revision.write(out, review, drawn[review.sheet.revision])
         known = {r.sheet.revision: r for r in revisions}
         for review in revisions:

@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
-from aeroreview.calibration import Calibration, page_data
+from aeroreview.calibration import STUDY_SUFFIXES, Calibration, page_data
+from aeroreview.memo import key
+from aeroreview.paths import PathProblem, contained_file
 from aeroreview.rules import all_rules
 from aeroreview.site.pages.common import CAUTION, Output, esc, link
 
@@ -26,8 +28,23 @@ def write(out: Output) -> None:
     out.page("calibrations/index.md", "\n".join(index) + "\n")
 
 
+FITTING = ("aeroreview.calibration", "aeroreview.calibrate", "aeroreview.study")  # the code page_data runs
+
+
+def remembered_page_data(out: Output, cal: Calibration) -> dict:
+    """The page's data, remembered by the calibration and its study's bytes: refitting the study on
+    every build cost one to three seconds (statsmodels' import alone)."""
+    root = out.settings.root
+    try:
+        study = contained_file((root / cal.file).parent, cal.study_file, STUDY_SUFFIXES, "study", "a study table")
+        name = key(repr(cal), study.read_bytes(), code=FITTING)
+    except (PathProblem, OSError):
+        return page_data(cal, root)  # the page says why the study cannot be refitted
+    return out.memo.get(name, lambda: page_data(cal, root))
+
+
 def calibration_page(out: Output, cal: Calibration) -> str:
-    data = page_data(cal, out.settings.root)
+    data = remembered_page_data(out, cal)
     used = {rule.sensitivity.feature: rule.id for rule in all_rules().values() if rule.sensitivity}
     lines = [f"# Calibration {esc(cal.file)}", ""]
     if data["comments"]:

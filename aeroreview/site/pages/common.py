@@ -12,6 +12,7 @@ import json
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from aeroreview.memo import Memo
 from aeroreview.review import Review
 from aeroreview.settings import Settings
 from aeroreview.site.figures import FigureCache
@@ -92,10 +93,12 @@ class Site:
 
 @dataclass
 class Output:
-    """Where page writers put what they write, with the settings and the figure cache."""
+    """Where page writers put what they write, with the settings, the figure cache and the memo
+    of slow results (settled histories, build-up curves, refitted studies)."""
 
     settings: Settings
     cache: FigureCache
+    memo: Memo = field(default_factory=lambda: Memo(None))
     site: Site = field(default_factory=Site)
     figures: dict[str, tuple[str, object]] = field(default_factory=dict)  # name -> (kind, data)
 
@@ -110,10 +113,12 @@ class Output:
         return f'![{esc(alt)}]({"../" * depth}figures/{name})'
 
     def draw_figures(self) -> None:
-        """Draw (or reuse) every figure the pages named, in parallel, and drop the unused ones from the cache."""
+        """Draw (or reuse) every figure the pages named, in parallel, and drop the unused figures and
+        remembered results from their caches."""
         for name, content in self.cache.draw_all(self.figures).items():
             self.site.files[f"figures/{name}"] = content
         self.cache.evict(self.figures)
+        self.memo.evict()
 
     def sheet_name(self, sheet) -> str:
         """The sheet's path relative to the knowledge base (never the reviewer's absolute path)."""

@@ -15,6 +15,7 @@ from aeroreview.sheet import IMAGE_SUFFIXES
 from aeroreview.site.pages import revision_figures
 from aeroreview.site.pages.common import (CAUTION, Output, badge, esc, heading, kind_suffix, link, paragraphs,
                                           recoverable_text, revision_path, score_text)
+from aeroreview.units import format_quantity
 
 
 def write(out: Output, review: Review, figures: RevisionFigures) -> None:
@@ -34,6 +35,7 @@ def write(out: Output, review: Review, figures: RevisionFigures) -> None:
               f"Cd to about {review.estimate.cd_after['mid']:.3f} · {verdict}", "", CAUTION]
     lines += key_numbers(review)
     lines += revision_figures.section(out, review, figures)
+    lines += surface_agreement(review)
     lines += findings(review)
     lines += ranked_fixes(review)
     lines += attachments(out, review)
@@ -79,6 +81,26 @@ def key_numbers(review: Review) -> list[str]:
     if review.assumptions:
         table += ["", "Assumed where the sheet is silent: " + "; ".join(esc(a) for a in review.assumptions) + "."]
     return table + [""]
+
+
+def surface_agreement(review: Review) -> list[str]:
+    """Each sheet value beside what its own surface measures, flagged where they disagree
+    (the comparison is the data-quality rule's, :mod:`aeroreview.rules.surface_agreement`)."""
+    finding = next((f for f in review.findings if f.rule.id == "data.surface-agreement"), None)
+    details = finding.verdict.details if finding else None
+    if not details:
+        return []
+    lines = ["## Sheet against its surface", "",
+             f"Each value the sheet gives beside what its surface <code>{esc(details['file'])}</code> measures "
+             f"({esc(finding.verdict.limit)}).", "",
+             "| Feature | Sheet | Surface | Tolerance | Agrees |", "|---|---|---|---|---|"]
+    for row in details["compared"]:
+        unit = catalogue.feature(row["key"]).unit
+        flag = "yes" if row["agrees"] else f"{badge(finding.status)} no"
+        lines.append(f"| `{row['key']}` | {format_quantity(row['sheet'], unit)} | {format_quantity(row['surface'], unit)} "
+                     f"| ±{format_quantity(row['tolerance'], unit)} | {flag} |")
+    lines += [f"- `{key}` not compared: {esc(why)}" for key, why in details["doubts"].items()]
+    return lines + [""]
 
 
 def estimate_rows(review: Review) -> list[tuple[str, str]]:

@@ -18,13 +18,21 @@ import numpy as np
 from aeroreview.calc.geometry.construct import filleted_polyline, loft, profile_function
 
 LENGTH, WIDTH = 4.87, 1.92
-# Design intent per revision (the same numbers as the sheets): angles in deg, radii in m.
+# Design intent per revision (the same numbers as the sheets): angles in deg, lengths and radii in m.
+# "section_radius" is the corner radius of the cabin's cross-sections (a tumblehome and rounded
+# sills), chosen so that the projected area comes out at the sheet's frontal area (mirrors and
+# camera pods are not modelled); nose and tail keep EDGE_RADIUS, so the belt line stays straight.
 DESIGNS = {
     "r1": {"windshield": 27, "backlight": 29, "decklid": 4, "roof_radius": 0.04, "front_radius": 0.035,
-           "diffuser": 15, "diffuser_length": 0.62, "taper": 2},
+           "diffuser": 15, "diffuser_length": 0.62, "taper": 2, "nose_rake": 2, "ground_clearance": 0.135,
+           "section_radius": 0.56},
     "r2": {"windshield": 27, "backlight": 22, "decklid": 2, "roof_radius": 0.38, "front_radius": 0.085,
-           "diffuser": 8, "diffuser_length": 0.70, "taper": 9},
+           "diffuser": 8, "diffuser_length": 0.70, "taper": 9, "nose_rake": 4, "ground_clearance": 0.13,
+           "section_radius": 0.65},
 }
+NOSE_RAKE_RUN = 0.7  # m: the front underbody rises from here to the nose
+EDGE_RADIUS = 0.12  # m: corner radius of the cross-sections at the nose and the tail
+CABIN = (1.5, 3.6)  # m: x range of the full section radius, blended to EDGE_RADIUS by 0.2 m ahead and 0.6 m behind
 
 
 def side_view(d: dict):
@@ -40,9 +48,11 @@ def side_view(d: dict):
          (roof_end, 1.43), (deck_start, 1.05), (LENGTH, deck_end_z), (LENGTH, 0.45)],
         [d["front_radius"], 0.6, 0.3, 0.12, d["roof_radius"], 0.2, 0.02], arc_points=32)
     rise = d["diffuser_length"] * t(r(d["diffuser"]))
+    floor = d["ground_clearance"]
+    nose = floor + NOSE_RAKE_RUN * t(r(d["nose_rake"]))
     lower = filleted_polyline(
-        [(0.0, 0.42), (0.0, 0.24), (0.7, 0.13), (LENGTH - d["diffuser_length"], 0.13), (LENGTH, 0.13 + rise),
-         (LENGTH, 0.45)], [0.05, 0.4, 0.3, 0.02], arc_points=16)
+        [(0.0, 0.42), (0.0, nose), (NOSE_RAKE_RUN, floor), (LENGTH - d["diffuser_length"], floor),
+         (LENGTH, floor + rise), (LENGTH, 0.45)], [0.05, 0.4, 0.3, 0.02], arc_points=16)
     return upper[1:-1], lower[1:-1]
 
 
@@ -66,7 +76,14 @@ def build(d: dict, stations: int = 60, ring: int = 36):
         if value - x[-1] > 2e-3 or value == candidates[-1]:
             x.append(value)
     x = np.clip(np.array(x), 1e-4, LENGTH - 1e-4)
-    return loft(x, bottom(x), top(x), np.maximum(width(x), 0.05), corner_radius=0.12, ring=ring)
+    return loft(x, bottom(x), top(x), np.maximum(width(x), 0.05), corner_radius=section_radii(d, x), ring=ring)
+
+
+def section_radii(d: dict, x: np.ndarray) -> np.ndarray:
+    """Corner radius [m] of the cross-section at each station: the cabin's, blended to the edges'."""
+    (start, end), full = CABIN, d["section_radius"]
+    return np.interp(x, [0.0, start - 0.2, start, end, end + 0.6, LENGTH],
+                     [EDGE_RADIUS, EDGE_RADIUS, full, full, EDGE_RADIUS, EDGE_RADIUS])
 
 
 def write_mesh(path: Path, vertices, faces) -> None:
