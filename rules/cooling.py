@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from aeroreview.display import M2, PERCENT, Reading
 from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
 
 COOLING_SOURCE = Source("Katz, Automotive Aerodynamics, Wiley (ISBN 978-1-119-18572-7), section on cooling drag, p. 538: "
@@ -47,20 +48,18 @@ def inlet_area(sheet, ctx):
     """
     inlet, required = sheet.get("cooling.inlet_area"), sheet.get("cooling.required_inlet_area")
     if required <= 0:
-        return passed("no cooling requirement given (no inlets needed)", measured=f"{inlet:.3f} m^2")
+        return passed("no cooling requirement given (no inlets needed)", measured=M2(inlet, 3))
     ratio = inlet / required
-    measured = f"{inlet:.3f} m^2 = {ratio * 100:.0f} % of the required {required:.3f} m^2"
+    measured = f"{M2(inlet, 3)} = {PERCENT(ratio)} of the required {M2(required, 3)}"
     if ratio < ctx["undersize"]:
         return major("the cooling inlet is smaller than the thermal requirement: cooling is at risk",
-                     measured=measured, limit=f">= {ctx['undersize'] * 100:.0f} %",
-                     margin=f"{(ratio - ctx['undersize']) * 100:+.0f} %")
+                     **Reading(ratio, PERCENT, at_least=ctx["undersize"]).shown(measured))
     if ratio > ctx["oversize"]:
         surplus = inlet - required * ctx["oversize"]
         shutters = sheet.get("cooling.shutters") or "none"
         controlled = shutters == "active" and sheet.get("cooling.ducts_sealed") is True
         open_share = OPEN_SHARE[shutters]
-        extra = dict(measured=measured, limit=f"<= {ctx['oversize'] * 100:.0f} %",
-                     margin=f"{(ratio - ctx['oversize']) * 100:+.0f} %",
+        extra = dict(Reading(ratio, PERCENT, at_most=ctx["oversize"]).shown(measured),
                      counts=counts_range(200 * surplus * open_share, 400 * surplus * open_share),
                      details={"open_share": open_share})
         if controlled:
@@ -68,7 +67,7 @@ def inlet_area(sheet, ctx):
                          "surplus most of the time", **extra)
         return major("the cooling inlet is larger than the thermal requirement needs", **extra)
     return passed("the cooling inlet matches the requirement", measured=measured,
-                  limit=f"{ctx['undersize'] * 100:.0f}-{ctx['oversize'] * 100:.0f} %")
+                  limit=PERCENT.span(ctx["undersize"], ctx["oversize"]))
 
 
 @rule("cooling.shutters", "Grille shutters", "warning",
@@ -170,12 +169,13 @@ def inlet_share(sheet, ctx):
     """
     kind = sheet.get("powertrain.kind")
     share, limit_share = sheet.get("cooling.inlet_area") / sheet.get("dimensions.frontal_area"), ctx[kind]
-    measured, limit = f"{share * 100:.1f} % of A ({kind})", f"<= {limit_share * 100:.1f} %"
-    if share > limit_share:
+    reading = Reading(share, PERCENT, at_most=limit_share, places=1, limit_places=1)
+    measured = f"{PERCENT(share, 1)} of A ({kind})"
+    if reading.beyond:
         surplus = (share - limit_share) * sheet.get("dimensions.frontal_area")
-        return major(f"the cooling inlets are large for {'an' if kind[0] in 'aeiou' else 'a'} {kind} powertrain", measured=measured, limit=limit,
-                     margin=f"{(share - limit_share) * 100:+.1f} %", counts=counts_range(200 * surplus, 400 * surplus))
-    return passed(f"the cooling inlet area suits the {kind} powertrain", measured=measured, limit=limit)
+        return major(f"the cooling inlets are large for {'an' if kind[0] in 'aeiou' else 'a'} {kind} powertrain",
+                     **reading.shown(measured), counts=counts_range(200 * surplus, 400 * surplus))
+    return passed(f"the cooling inlet area suits the {kind} powertrain", **reading.shown(measured, margin=False))
 
 
 @rule("cooling.brake-ducts", "Brake cooling behind closed rims", "advisory",
@@ -201,10 +201,10 @@ def brake_ducts(sheet, ctx):
         passes: {features: {cooling.brake_ducts: true}}
     """
     openness, ducts = sheet.get("wheels.rim_openness"), sheet.get("cooling.brake_ducts")
-    measured = f"rims {openness * 100:.0f} % open, brake ducts {'fitted' if ducts else 'none'}"
+    measured = f"rims {PERCENT(openness)} open, brake ducts {'fitted' if ducts else 'none'}"
     if openness < ctx["closed"] and not ducts:
         return minor("closed rims without brake ducts: check brake cooling by test", measured=measured,
-                     limit=f"ducts when rims are under {ctx['closed'] * 100:.0f} % open")
+                     limit=f"ducts when rims are under {PERCENT(ctx['closed'])} open")
     return passed("brake cooling is provided for", measured=measured)
 
 

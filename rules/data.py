@@ -5,6 +5,7 @@ from __future__ import annotations
 import math
 
 from aeroreview.calc.forces import reynolds_number
+from aeroreview.display import COUNTS, KM_H
 from aeroreview.rules import COMMON, Source, Threshold, major, not_assessed, passed, rule
 
 
@@ -128,7 +129,7 @@ def model_reynolds(sheet, ctx):
     worst = min(scaled, key=lambda r: r.speed * r.scale)
     re = float(reynolds_number(worst.speed, sheet.get("dimensions.length") * worst.scale, 1.0,
                                ctx.kinematic_viscosity))
-    measured = f"Re = {re:.2g} ({worst.label}, scale {worst.scale:g} at {worst.speed * 3.6:.0f} km/h)"
+    measured = f"Re = {re:.2g} ({worst.label}, scale {worst.scale:g} at {KM_H(worst.speed)})"
     if re < ctx["minimum"]:
         return major("a scale-model result is at a Reynolds number where rounded-edge flows are not yet "
                      "representative", measured=measured, limit=f">= {ctx['minimum']:.0e}")
@@ -278,10 +279,10 @@ def convergence_reasons(stats: dict[str, dict], settled_rows: int, limits: dict[
                            f"{s['transient_end']:g}, in the second half of the run)")
         limit = limits["std_error"] if key == "cd" else limits["lift_std_error"]
         if s["std_error"] > limit:
-            reasons.append(f"{key}: standard error {s['std_error'] / 0.001:.2f} counts, over {limit / 0.001:g}")
+            reasons.append(f"{key}: standard error {COUNTS(s['std_error'], 2)}, over {COUNTS.number(limit, None)}")
         if abs(s["drift_per_1000"]) > limits["drift"]:
-            reasons.append(f"{key}: drift {s['drift_per_1000'] / 0.001:+.2f} counts per 1000 iterations, "
-                           f"over {limits['drift'] / 0.001:g}")
+            reasons.append(f"{key}: drift {COUNTS(s['drift_per_1000'], 2, signed=True)} per 1000 iterations, "
+                           f"over {COUNTS.number(limits['drift'], None)}")
     return reasons
 
 
@@ -318,8 +319,8 @@ def cfd_tunnel_correlation(sheet, ctx):
     if not cfd or not tunnel:
         return passed("no CFD and full-scale tunnel pair to compare", measured="no pair")
     gap, a, b = max((abs(c.cd - t.cd), c, t) for c in cfd for t in tunnel)
-    measured = f"|Cd CFD - Cd tunnel| = {gap / 0.001:.1f} counts ({a.label} vs {b.label})"
-    limit = f"<= {ctx['difference'] / 0.001:g} counts"
+    measured = f"|Cd CFD - Cd tunnel| = {COUNTS(gap, 1)} ({a.label} vs {b.label})"
+    limit = f"<= {COUNTS(ctx['difference'], None)}"
     if gap > ctx["difference"]:
         return major("CFD and tunnel disagree: correlate them before costing fixes on either",
                      measured=measured, limit=limit)

@@ -2,8 +2,7 @@
 
 from __future__ import annotations
 
-import math
-
+from aeroreview.display import DEG, MM, PERCENT, Reading
 from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Source, Threshold, body_scale, counts_range,
                               front_face_height, major, minor, passed, rule)
 
@@ -23,7 +22,7 @@ def _edge_rule(sheet, ctx, key: str, what: str, van_like_counts, car_counts, fac
     ratio = radius / scale
     boxy = sheet.get("vehicle.class") in BOX_CLASSES
     low, high = van_like_counts if boxy else car_counts
-    measured = f"r / {against} = {ratio:.3f} ({radius * 1000:.0f} mm on {scale * 1000:.0f} mm)"
+    measured = f"r / {against} = {ratio:.3f} ({MM(radius)} on {MM(scale)})"
     if ratio < ctx["attached_ratio"]:
         shortfall = 1 - ratio / ctx["attached_ratio"]
         return major(f"{what} radius is small for the body size: the flow separates at the edge",
@@ -126,13 +125,13 @@ def air_dam(sheet, ctx):
         fails (advisory): {features: {front.air_dam_clearance: 150 mm}}
         passes: {features: {front.air_dam_clearance: 105 mm}}
     """
-    depth = sheet.get("dimensions.ground_clearance") - sheet.get("front.air_dam_clearance")
-    measured = f"dam edge {depth * 1000:+.0f} mm below the underbody"
-    if depth < ctx["dam_depth"]:
-        return minor("the air dam does not reach below the underbody plane", measured=measured,
-                     limit=f">= {ctx['dam_depth'] * 1000:.0f} mm", margin=f"{(depth - ctx['dam_depth']) * 1000:+.0f} mm",
+    depth = Reading(sheet.get("dimensions.ground_clearance") - sheet.get("front.air_dam_clearance"), MM,
+                    at_least=ctx["dam_depth"])
+    measured = f"dam edge {MM(depth.value, signed=True)} below the underbody"
+    if depth.beyond:
+        return minor("the air dam does not reach below the underbody plane", **depth.shown(measured),
                      counts=counts_range(3, 12), cl_front=-0.02)
-    return passed("the air dam shields the underbody", measured=measured, limit=f">= {ctx['dam_depth'] * 1000:.0f} mm")
+    return passed("the air dam shields the underbody", **depth.shown(measured, margin=False))
 
 
 @rule("front.air-curtains", "Air curtains ahead of the front wheels", "advisory", region="wheels",
@@ -194,16 +193,14 @@ def hood_angle(sheet, ctx):
         fails (advisory): {features: {front.hood_angle: 3 deg}}
         passes: {features: {front.hood_angle: 10 deg}}
     """
-    degrees = math.degrees(sheet.get("front.hood_angle"))
-    flat, steep = math.degrees(ctx["flat"]), math.degrees(ctx["steep"])
-    measured, limit = f"{degrees:.1f} deg", f"{flat:.0f}-{steep:.0f} deg"
-    if degrees < flat:
-        return minor("the hood is nearly flat: the nose stays high and blunt", measured=measured, limit=limit,
-                     margin=f"{degrees - flat:+.1f} deg", counts=counts_range(1, 5), cl_front=-0.01)
-    if degrees > steep:
-        return minor("the hood is steep enough to separate behind its leading edge", measured=measured, limit=limit,
-                     margin=f"{degrees - steep:+.1f} deg", counts=counts_range(1, 3))
-    return passed("the hood inclination is in the usual range", measured=measured, limit=limit)
+    angle = Reading(sheet.get("front.hood_angle"), DEG, at_least=ctx["flat"], at_most=ctx["steep"], places=1)
+    if angle.below:
+        return minor("the hood is nearly flat: the nose stays high and blunt", **angle.shown(),
+                     counts=counts_range(1, 5), cl_front=-0.01)
+    if angle.above:
+        return minor("the hood is steep enough to separate behind its leading edge", **angle.shown(),
+                     counts=counts_range(1, 3))
+    return passed("the hood inclination is in the usual range", **angle.shown(margin=False))
 
 
 @rule("front.stagnation-height", "Height of the stagnation point", "advisory",
@@ -232,13 +229,13 @@ def stagnation_height(sheet, ctx):
         fails (advisory): {features: {front.stagnation_height: 600 mm}}
         passes: {features: {front.stagnation_height: 450 mm}}
     """
-    share = sheet.get("front.stagnation_height") / sheet.get("dimensions.height")
-    measured = f"{share * 100:.0f} % of the height ({sheet.get('front.stagnation_height') * 1000:.0f} mm)"
-    limit = f"<= {ctx['share'] * 100:.0f} %"
-    if share > ctx["share"]:
-        return minor("the nose is high: more air is sent under the car", measured=measured, limit=limit,
-                     margin=f"{(share - ctx['share']) * 100:+.0f} %", counts=counts_range(1, 4), cl_front=-0.02)
-    return passed("the stagnation point is low", measured=measured, limit=limit)
+    height = sheet.get("front.stagnation_height")
+    share = Reading(height / sheet.get("dimensions.height"), PERCENT, at_most=ctx["share"])
+    measured = f"{PERCENT(share.value)} of the height ({MM(height)})"
+    if share.beyond:
+        return minor("the nose is high: more air is sent under the car", **share.shown(measured),
+                     counts=counts_range(1, 4), cl_front=-0.02)
+    return passed("the stagnation point is low", **share.shown(measured, margin=False))
 
 
 @rule("front.splitter", "Front splitter overhang", "advisory",
@@ -265,9 +262,8 @@ def splitter(sheet, ctx):
         fails (advisory): {features: {front.splitter_length: 100 mm}}
         passes: {features: {front.splitter_length: 20 mm}}
     """
-    length = sheet.get("front.splitter_length")
-    measured, limit = f"{length * 1000:.0f} mm", f"<= {ctx['maximum'] * 1000:.0f} mm"
-    if length > ctx["maximum"]:
-        return minor("the splitter overhang is long for a road car: drag and kerb strikes", measured=measured,
-                     limit=limit, margin=f"{(length - ctx['maximum']) * 1000:+.0f} mm", counts=counts_range(1, 4))
-    return passed("the splitter overhang is moderate", measured=measured, limit=limit)
+    length = Reading(sheet.get("front.splitter_length"), MM, at_most=ctx["maximum"])
+    if length.beyond:
+        return minor("the splitter overhang is long for a road car: drag and kerb strikes", **length.shown(),
+                     counts=counts_range(1, 4))
+    return passed("the splitter overhang is moderate", **length.shown(margin=False))

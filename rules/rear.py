@@ -5,6 +5,7 @@ from __future__ import annotations
 import math
 
 from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd, ahmed_uncertainty
+from aeroreview.display import DEG, M2, MM, PERCENT, Reading
 from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Sensitivity, Source, Threshold, body_scale,
                               counts_range, major, minor, passed, rule)
 
@@ -79,7 +80,8 @@ def backlight_angle(sheet, ctx):
         fails (failure): {features: {rear.backlight_angle: 29 deg, rear.roof_backlight_radius: 50 mm}}
         passes: {features: {rear.backlight_angle: 22 deg, rear.roof_backlight_radius: 380 mm}}
     """
-    degrees = math.degrees(sheet.get("rear.backlight_angle"))
+    angle = sheet.get("rear.backlight_angle")
+    degrees = math.degrees(angle)  # the Ahmed curve reads degrees
     low, high = math.degrees(ctx["critical_low"]), math.degrees(ctx["critical_high"])
     rising = math.degrees(ctx["rising_low"])
     radius = sheet.get("rear.roof_backlight_radius")
@@ -87,7 +89,8 @@ def backlight_angle(sheet, ctx):
     ratio = radius / scale if radius is not None and scale else None
     generous = ratio is not None and ratio >= ctx["generous_radius"]
     radius_text = f"; roof radius r / sqrt(A) = {ratio:.2f}" if ratio is not None else "; roof radius not given"
-    measured = f"{degrees:.1f} deg{radius_text}"
+    measured = f"{DEG(angle, 1)}{radius_text}"
+    region = f"outside {DEG.span(ctx['critical_low'], ctx['critical_high'])}"
     beyond = min(max(high + 1, 35.0), SQUARE_BACK_ANGLE)  # past the region, on the published curve
     reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(beyond))
     step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
@@ -96,36 +99,33 @@ def backlight_angle(sheet, ctx):
     counts = counts_range(200 * (step - spread) * steadied, 600 * (step + spread) * steadied)
     details = {"ahmed_step": round(step, 4), "ahmed_uncertainty": spread, "radius_factor": round(steadied, 3)}
     if low <= degrees <= high:
-        margin = f"{min(degrees - low, high - degrees):.1f} deg inside the region"
+        margin = f"{DEG(min(angle - ctx['critical_low'], ctx['critical_high'] - angle), 1)} inside the region"
         if generous:
             return minor("the backlight lies in the critical region, steadied by a generous roof radius",
-                         measured=measured, limit=f"outside {low:.0f}-{high:.0f} deg", margin=margin,
+                         measured=measured, limit=region, margin=margin,
                          counts=counts, cl_rear=-0.03, details=details)
         return major("the backlight lies in the critical region of the Ahmed curve: high drag and a flow that can "
-                     "switch state", measured=measured, limit=f"outside {low:.0f}-{high:.0f} deg", margin=margin,
+                     "switch state", measured=measured, limit=region, margin=margin,
                      counts=counts, cl_rear=-0.05, details=details)
     if rising < degrees < low and not generous:
         return minor("the backlight is on the rising part of the Ahmed curve, close to the critical region",
-                     measured=measured, limit=f"<= {rising:.0f} deg or a generous roof radius",
-                     margin=f"{low - degrees:.1f} deg below the region", counts=counts, cl_rear=-0.02, details=details)
+                     measured=measured, limit=f"<= {DEG(ctx['rising_low'])} or a generous roof radius",
+                     margin=f"{DEG(ctx['critical_low'] - angle, 1)} below the region", counts=counts, cl_rear=-0.02,
+                     details=details)
     return passed("the backlight angle is clear of the critical region", measured=measured,
-                  limit=f"outside {low:.0f}-{high:.0f} deg")
+                  limit=region)
 
 
 def _taper(sheet, ctx, key: str, where: str):
-    degrees = math.degrees(sheet.get(key))
-    useful, separation = math.degrees(ctx["useful"]), math.degrees(ctx["separation"])
-    measured = f"{degrees:.1f} deg"
-    if degrees > separation:
-        return major(f"the {where} taper is steeper than the flow can follow: separation returns", measured=measured,
-                     limit=f"{useful:.0f}-{separation:.0f} deg", margin=f"{degrees - separation:+.1f} deg",
+    angle = Reading(sheet.get(key), DEG, at_least=ctx["useful"], at_most=ctx["separation"], places=1)
+    if angle.above:
+        return major(f"the {where} taper is steeper than the flow can follow: separation returns", **angle.shown(),
                      counts=counts_range(3, 12))
-    if degrees < useful:
-        return minor(f"the {where} has little or no taper: free drag reduction left on the table", measured=measured,
-                     limit=f"{useful:.0f}-{separation:.0f} deg", margin=f"{degrees - useful:+.1f} deg",
-                     counts=counts_range(0.8 * (useful + 5 - degrees), 2.0 * (useful + 5 - degrees)))
-    return passed(f"the {where} taper is in the useful range", measured=measured,
-                  limit=f"{useful:.0f}-{separation:.0f} deg")
+    if angle.below:
+        missing = math.degrees(ctx["useful"]) + 5 - math.degrees(angle.value)
+        return minor(f"the {where} has little or no taper: free drag reduction left on the table", **angle.shown(),
+                     counts=counts_range(0.8 * missing, 2.0 * missing))
+    return passed(f"the {where} taper is in the useful range", **angle.shown(margin=False))
 
 
 _TAPER_THRESHOLDS = (
@@ -208,13 +208,11 @@ def separation_edge(sheet, ctx):
         fails (warning): {features: {rear.separation_edge_radius: 25 mm}}
         passes: {features: {rear.separation_edge_radius: 3 mm}}
     """
-    radius = sheet.get("rear.separation_edge_radius")
-    if radius > ctx["radius"]:
-        return major("the rear edges are rounded: the separation line is not fixed", measured=f"{radius * 1000:.0f} mm",
-                     limit=f"<= {ctx['radius'] * 1000:.0f} mm", margin=f"{(radius - ctx['radius']) * 1000:+.0f} mm",
+    radius = Reading(sheet.get("rear.separation_edge_radius"), MM, at_most=ctx["radius"])
+    if radius.beyond:
+        return major("the rear edges are rounded: the separation line is not fixed", **radius.shown(),
                      counts=counts_range(3, 12))
-    return passed("the rear edges fix the separation line", measured=f"{radius * 1000:.0f} mm",
-                  limit=f"<= {ctx['radius'] * 1000:.0f} mm")
+    return passed("the rear edges fix the separation line", **radius.shown(margin=False))
 
 
 @rule("rear.spoiler", "Rear spoiler or kick-up height", "advisory",
@@ -239,16 +237,14 @@ def spoiler(sheet, ctx):
         fails (advisory): {features: {rear.spoiler_height: 0 mm}}
         passes: {features: {rear.spoiler_height: 22 mm}}
     """
-    height = sheet.get("rear.spoiler_height")
-    measured = f"{height * 1000:.0f} mm"
-    limits = f"{ctx['minimum'] * 1000:.0f}-{ctx['maximum'] * 1000:.0f} mm"
-    if height < ctx["minimum"]:
-        return minor("no effective kick-up or spoiler at the rear edge", measured=measured, limit=limits,
+    height = Reading(sheet.get("rear.spoiler_height"), MM, at_least=ctx["minimum"], at_most=ctx["maximum"])
+    if height.below:
+        return minor("no effective kick-up or spoiler at the rear edge", **height.shown(margin=False),
                      counts=counts_range(2, 8), cl_rear=-0.04)
-    if height > ctx["maximum"]:
+    if height.above:
         return minor("the spoiler is tall: check that its drag is paid for by the rear lift target",
-                     measured=measured, limit=limits, counts=counts_range(2, 6))
-    return passed("the rear kick-up height is in the useful range", measured=measured, limit=limits)
+                     **height.shown(margin=False), counts=counts_range(2, 6))
+    return passed("the rear kick-up height is in the useful range", **height.shown(margin=False))
 
 
 @rule("rear.roof-rails", "Roof rails", "warning", region="appendages",
@@ -308,14 +304,13 @@ def decklid_length(sheet, ctx):
         fails (advisory): {features: {rear.decklid_length: 150 mm}}
         passes: {features: {rear.decklid_length: 300 mm}}
     """
-    share = sheet.get("rear.decklid_length") / sheet.get("dimensions.length")
-    measured = f"{share * 100:.1f} % of the length ({sheet.get('rear.decklid_length') * 1000:.0f} mm)"
-    limit = f">= {ctx['share'] * 100:.0f} %"
-    if share < ctx["share"]:
-        return minor("the decklid is short: the backlight flow has no deck to reattach to", measured=measured,
-                     limit=limit, margin=f"{(share - ctx['share']) * 100:+.1f} %", counts=counts_range(2, 6),
-                     cl_rear=-0.02)
-    return passed("the decklid gives the backlight flow room to reattach", measured=measured, limit=limit)
+    length = sheet.get("rear.decklid_length")
+    share = Reading(length / sheet.get("dimensions.length"), PERCENT, at_least=ctx["share"], places=1)
+    measured = f"{PERCENT(share.value, 1)} of the length ({MM(length)})"
+    if share.beyond:
+        return minor("the decklid is short: the backlight flow has no deck to reattach to", **share.shown(measured),
+                     counts=counts_range(2, 6), cl_rear=-0.02)
+    return passed("the decklid gives the backlight flow room to reattach", **share.shown(measured, margin=False))
 
 
 @rule("rear.decklid-angle", "Decklid falling toward the rear edge", "advisory",
@@ -341,13 +336,12 @@ def decklid_angle(sheet, ctx):
         fails (advisory): {features: {rear.decklid_angle: 12 deg}}
         passes: {features: {rear.decklid_angle: 2 deg}}
     """
-    degrees, falling = math.degrees(sheet.get("rear.decklid_angle")), math.degrees(ctx["falling"])
-    measured = f"{degrees:+.1f} deg"
-    if degrees > falling:
-        return minor("the decklid falls steeply toward the rear edge: rear lift rises", measured=measured,
-                     limit=f"<= {falling:.0f} deg", margin=f"{degrees - falling:+.1f} deg", counts=counts_range(1, 4),
-                     cl_rear=-0.02)
-    return passed("the decklid is level enough to hold the tail flow", measured=measured, limit=f"<= {falling:.0f} deg")
+    angle = Reading(sheet.get("rear.decklid_angle"), DEG, at_most=ctx["falling"], places=1)
+    measured = DEG(angle.value, 1, signed=True)
+    if angle.beyond:
+        return minor("the decklid falls steeply toward the rear edge: rear lift rises", **angle.shown(measured),
+                     counts=counts_range(1, 4), cl_rear=-0.02)
+    return passed("the decklid is level enough to hold the tail flow", **angle.shown(measured, margin=False))
 
 
 BASE_SOURCE = Source("base drag = -Cp_base x A_base / A with a base pressure coefficient of about -0.15 to -0.25 on "
@@ -383,11 +377,10 @@ def base_area(sheet, ctx):
     """
     share = sheet.get("rear.base_area") / sheet.get("dimensions.frontal_area")
     limit_share = ctx["box_share"] if sheet.get("vehicle.class") in BOX_CLASSES else ctx["car_share"]
-    measured = f"{share * 100:.0f} % of A ({sheet.get('rear.base_area'):.2f} m^2)"
-    limit = f"<= {limit_share * 100:.0f} %"
-    if share > limit_share:
+    reading = Reading(share, PERCENT, at_most=limit_share)
+    measured = f"{PERCENT(share)} of A ({M2(sheet.get('rear.base_area'), 2)})"
+    if reading.beyond:
         excess = share - limit_share
-        return minor("the base is large: its wake pressure acts on a large area", measured=measured, limit=limit,
-                     margin=f"{excess * 100:+.0f} %",
+        return minor("the base is large: its wake pressure acts on a large area", **reading.shown(measured),
                      counts=counts_range(1000 * BASE_PRESSURE[0] * excess, 1000 * BASE_PRESSURE[1] * excess))
-    return passed("the base is compact", measured=measured, limit=limit)
+    return passed("the base is compact", **reading.shown(measured, margin=False))

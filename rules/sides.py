@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from aeroreview.display import CM2, MM, PERCENT, Reading
 from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
 
 MIRROR_CD = (0.4, 0.6)  # drag coefficient of a mirror head on its own frontal area (from memory, Hucho 1998,
@@ -48,15 +49,15 @@ def mirror_area(sheet, ctx):
     share = area / frontal
     allowed = ctx["share_large"] if sheet.get("vehicle.class") in LARGE_MIRROR_CLASSES else ctx["share"]
     cost = (1000 * MIRROR_CD[0] * area / frontal, 1000 * MIRROR_CD[1] * area / frontal)
-    measured = f"{share * 100:.2f} % of A ({area * 1e4:.0f} cm^2)"
-    if share > allowed:
+    reading = Reading(share, PERCENT, at_most=allowed, places=2, limit_places=1)
+    measured = f"{PERCENT(share, 2)} of A ({CM2(area)})"
+    if reading.beyond:
         target = allowed * frontal
         saving = (1000 * MIRROR_CD[0] * (area - target) / frontal, 1000 * MIRROR_CD[1] * (area - target) / frontal)
         return major(f"the mirrors are large; they cost about {cost[0]:.0f}-{cost[1]:.0f} counts in all",
-                     measured=measured, limit=f"<= {allowed * 100:.1f} %",
-                     margin=f"{(share - allowed) * 100:+.2f} %", counts=counts_range(*saving))
-    return passed(f"mirror size is moderate (about {cost[0]:.0f}-{cost[1]:.0f} counts in all)", measured=measured,
-                  limit=f"<= {allowed * 100:.1f} %")
+                     **reading.shown(measured), counts=counts_range(*saving))
+    return passed(f"mirror size is moderate (about {cost[0]:.0f}-{cost[1]:.0f} counts in all)",
+                  **reading.shown(measured, margin=False))
 
 
 @rule("sides.mirror-gap", "Gap between mirror housing and side glass", "warning",
@@ -81,12 +82,11 @@ def mirror_gap(sheet, ctx):
     """
     if sheet.get("sides.mirror_kind") == "none":
         return passed("no exterior mirrors", measured="none")
-    gap = sheet.get("sides.mirror_gap")
-    if gap < ctx["gap"]:
-        return major("the mirror sits close to the glass: channel flow, drag and noise", measured=f"{gap * 1000:.0f} mm",
-                     limit=f">= {ctx['gap'] * 1000:.0f} mm", margin=f"{(gap - ctx['gap']) * 1000:+.0f} mm",
+    gap = Reading(sheet.get("sides.mirror_gap"), MM, at_least=ctx["gap"])
+    if gap.beyond:
+        return major("the mirror sits close to the glass: channel flow, drag and noise", **gap.shown(),
                      counts=counts_range(1, 5))
-    return passed("the mirror gap is clear", measured=f"{gap * 1000:.0f} mm", limit=f">= {ctx['gap'] * 1000:.0f} mm")
+    return passed("the mirror gap is clear", **gap.shown(margin=False))
 
 
 @rule("sides.door-handles", "Door handles flush with the skin", "advisory",
@@ -134,12 +134,11 @@ def sill_step(sheet, ctx):
         fails (advisory): {features: {sides.sill_step: 30 mm}}
         passes: {features: {sides.sill_step: 8 mm}}
     """
-    step = sheet.get("sides.sill_step")
-    if step > ctx["step"]:
-        return minor("the sill is set back deeply below the doors", measured=f"{step * 1000:.0f} mm",
-                     limit=f"<= {ctx['step'] * 1000:.0f} mm", counts=counts_range(1, 3))
-    return passed("the sill follows the door line", measured=f"{step * 1000:.0f} mm",
-                  limit=f"<= {ctx['step'] * 1000:.0f} mm")
+    step = Reading(sheet.get("sides.sill_step"), MM, at_most=ctx["step"])
+    if step.beyond:
+        return minor("the sill is set back deeply below the doors", **step.shown(margin=False),
+                     counts=counts_range(1, 3))
+    return passed("the sill follows the door line", **step.shown(margin=False))
 
 
 @rule("sides.panel-gap", "Shut-line gaps on the body side", "advisory",
@@ -163,9 +162,7 @@ def panel_gap(sheet, ctx):
         fails (advisory): {features: {sides.panel_gap: 7 mm}}
         passes: {features: {sides.panel_gap: 3.5 mm}}
     """
-    gap = sheet.get("sides.panel_gap")
-    measured, limit = f"{gap * 1000:.1f} mm", f"<= {ctx['gap'] * 1000:.0f} mm"
-    if gap > ctx["gap"]:
-        return minor("the side shut lines are wide", measured=measured, limit=limit,
-                     margin=f"{(gap - ctx['gap']) * 1000:+.1f} mm", counts=counts_range(0.5, 2))
-    return passed("the shut lines are tight", measured=measured, limit=limit)
+    gap = Reading(sheet.get("sides.panel_gap"), MM, at_most=ctx["gap"], places=1)
+    if gap.beyond:
+        return minor("the side shut lines are wide", **gap.shown(), counts=counts_range(0.5, 2))
+    return passed("the shut lines are tight", **gap.shown(margin=False))

@@ -13,6 +13,7 @@ import numpy as np
 
 from aeroreview.calc.forces import axle_lift, axle_load_share, kilograms_force
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
+from aeroreview.display import KG, KM_H, PERCENT, Reading
 from aeroreview.rules import COMMON, Source, Threshold, major, minor, not_assessed, passed, rule
 
 LIFT_SOURCE = Source("axle unloading limits for road cars at top speed; from memory (Hucho 1998, driving stability, "
@@ -46,24 +47,25 @@ def _unloading(sheet, ctx, axle: str):
     if top is None:
         return not_assessed("needs a result with cl_front and cl_rear, and the frontal area",
                             missing=("results[].cl_front", "results[].cl_rear"))
-    reference = axle_figures(sheet, ctx, ctx.reference_speed)
+    reference_speed = ctx.reference_speed
+    reference = axle_figures(sheet, ctx, reference_speed)
     share, kg = top[f"{axle}_share"], top[f"{axle}_kg"]
     strict = sheet.get("vehicle.class") in STRICT_CLASSES or sheet.get("powertrain.top_speed") > ctx["fast"]
     factor = STRICT_FACTOR if strict else 1.0
     ctx = {"major_share": ctx["major_share"] * factor, "minor_share": ctx["minor_share"] * factor}
-    measured = (f"{share * 100:+.1f} % of the static {axle} axle load ({kg:+.0f} kg) at {top['speed_km_h']:.0f} km/h; "
-                f"{reference[f'{axle}_kg']:+.0f} kg at {reference['speed_km_h']:.0f} km/h")
+    measured = (f"{PERCENT(share, 1, signed=True)} of the static {axle} axle load ({KG(kg, signed=True)}) at "
+                f"{KM_H(sheet.get('powertrain.top_speed'))}; {KG(reference[f'{axle}_kg'], signed=True)} at "
+                f"{KM_H(reference_speed)}")
     details = {"top_speed": top, "reference_speed": reference, "strict_limits": strict}
-    if share > ctx["major_share"]:
-        return major(f"the {axle} axle loses more than {ctx['major_share'] * 100:.0f} % of its load at top speed",
-                     measured=measured, limit=f"<= {ctx['major_share'] * 100:.0f} %",
-                     margin=f"{(share - ctx['major_share']) * 100:+.1f} %", details=details)
-    if share > ctx["minor_share"]:
-        return minor(f"the {axle} axle unloads noticeably at top speed", measured=measured,
-                     limit=f"<= {ctx['minor_share'] * 100:.0f} %", margin=f"{(share - ctx['minor_share']) * 100:+.1f} %",
-                     details=details)
-    return passed(f"{axle} axle lift at top speed is small", measured=measured,
-                  limit=f"<= {ctx['minor_share'] * 100:.0f} %", details=details)
+    unacceptable = Reading(share, PERCENT, at_most=ctx["major_share"], places=1)
+    noticeable = Reading(share, PERCENT, at_most=ctx["minor_share"], places=1)
+    if unacceptable.beyond:
+        return major(f"the {axle} axle loses more than {PERCENT(ctx['major_share'])} of its load at top speed",
+                     **unacceptable.shown(measured), details=details)
+    if noticeable.beyond:
+        return minor(f"the {axle} axle unloads noticeably at top speed", **noticeable.shown(measured), details=details)
+    return passed(f"{axle} axle lift at top speed is small", **noticeable.shown(measured, margin=False),
+                  details=details)
 
 
 YAW_SOURCE = Source("crosswind sensitivity of axle lift; from memory (Hucho 1998, crosswind, chapter not checked)",
@@ -224,11 +226,12 @@ def yaw_rear_lift(sheet, ctx):
     at_zero, at_ten = found
     growth = at_ten - at_zero
     relative = growth / abs(at_zero) if abs(at_zero) > 1e-9 else math.inf
-    measured = f"cl_rear {at_zero:+.3f} -> {at_ten:+.3f} from 0 to 10 deg ({growth:+.3f}, {relative * 100:+.0f} %)"
+    measured = (f"cl_rear {at_zero:+.3f} -> {at_ten:+.3f} from 0 to 10 deg "
+                f"({growth:+.3f}, {PERCENT(relative, signed=True)})")
     light = growth > ctx["moderate"] and relative > ctx["relative"] and at_ten > ctx["high"]
     if growth > ctx["growth"] or light:
         return major("rear lift grows quickly with yaw" + (" to a light rear" if light else ""), measured=measured,
-                     limit=f"rise <= {ctx['growth']:+.2f}, and <= {ctx['relative'] * 100:.0f} % where cl_rear at "
+                     limit=f"rise <= {ctx['growth']:+.2f}, and <= {PERCENT(ctx['relative'])} where cl_rear at "
                            f"10 deg exceeds {ctx['high']:.2f}", margin=f"{growth - ctx['growth']:+.3f}",
                      cl_rear=-(growth - ctx["moderate"]))
     return passed("rear lift grows moderately with yaw", measured=measured, limit=f"rise <= {ctx['growth']:+.2f}")
@@ -313,17 +316,15 @@ def yaw_drag_rise(sheet, ctx):
     if found is None:
         return not_assessed("needs a yaw sweep with Cd from 0 to at least 10 deg", missing=("results[].yaw_sweep",))
     rise = found[1] / found[0] - 1
-    measured = f"Cd {found[0]:.3f} -> {found[1]:.3f} from 0 to 10 deg ({rise * 100:+.1f} %)"
+    measured = f"Cd {found[0]:.3f} -> {found[1]:.3f} from 0 to 10 deg ({PERCENT(rise, 1, signed=True)})"
     excess = max(0.0, found[1] - found[0] * (1 + ctx["moderate"])) * 1000
-    if rise > ctx["steep"]:
-        return major("drag rises steeply with yaw", measured=measured, limit=f"<= {ctx['steep'] * 100:.0f} %",
-                     margin=f"{(rise - ctx['steep']) * 100:+.1f} %", counts=(round(0.25 * excess, 1),
-                                                                             round(0.5 * excess, 1)))
-    if rise > ctx["moderate"]:
-        return minor("drag rises noticeably with yaw", measured=measured, limit=f"<= {ctx['moderate'] * 100:.0f} %",
-                     margin=f"{(rise - ctx['moderate']) * 100:+.1f} %", counts=(round(0.25 * excess, 1),
-                                                                                round(0.5 * excess, 1)))
-    return passed("drag rises moderately with yaw", measured=measured, limit=f"<= {ctx['moderate'] * 100:.0f} %")
+    counts = (round(0.25 * excess, 1), round(0.5 * excess, 1))
+    steep, moderate = (Reading(rise, PERCENT, at_most=ctx[name], places=1) for name in ("steep", "moderate"))
+    if steep.beyond:
+        return major("drag rises steeply with yaw", **steep.shown(measured), counts=counts)
+    if moderate.beyond:
+        return minor("drag rises noticeably with yaw", **moderate.shown(measured), counts=counts)
+    return passed("drag rises moderately with yaw", **moderate.shown(measured, margin=False))
 
 
 @rule("stability.wind-averaged-drag", "Wind-averaged drag against zero-yaw drag", "advisory", needs=(),
@@ -364,7 +365,7 @@ def wind_averaged_drag(sheet, ctx):
     averaged = wind_averaged_cd(np.abs(yaw), cd, ctx["speed"])
     at_zero = float(np.interp(0, np.abs(yaw)[np.argsort(np.abs(yaw))], cd[np.argsort(np.abs(yaw))]))
     ratio = averaged / at_zero
-    measured = f"Cd wind-averaged {averaged:.3f} / zero-yaw {at_zero:.3f} = {ratio:.3f} at {ctx['speed'] * 3.6:.0f} km/h"
+    measured = f"Cd wind-averaged {averaged:.3f} / zero-yaw {at_zero:.3f} = {ratio:.3f} at {KM_H(ctx['speed'])}"
     if ratio > ctx["ratio"]:
         return minor("the wind-averaged drag is well above the zero-yaw figure", measured=measured,
                      limit=f"<= {ctx['ratio']:.2f}", margin=f"{ratio - ctx['ratio']:+.3f}")

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 
+from aeroreview.display import DEG, MM, PERCENT, Reading
 from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
 DIFFUSER_SOURCE = Source("Ruhrmann and Zhang, 'Influence of diffuser angle on a bluff body in ground effect', J. "
@@ -53,15 +54,14 @@ def panel_coverage(sheet, ctx):
     coverage = sheet.get("underbody.panel_coverage")
     target = ctx["battery_target"] if sheet.get("powertrain.kind") == "electric" else ctx["target"]
     gap = target - coverage
-    measured = f"{coverage * 100:.0f} %"
+    reading = Reading(coverage, PERCENT, at_least=target)
     if coverage < ctx["poor"]:
-        return major("the underbody is largely open", measured=measured, limit=f">= {target * 100:.0f} %",
-                     margin=f"{-gap * 100:+.0f} %", counts=counts_range(20 * gap, 50 * gap),
+        return major("the underbody is largely open", **reading.shown(), counts=counts_range(20 * gap, 50 * gap),
                      cl_front=-0.01, cl_rear=-0.01)
-    if coverage < target:
-        return minor("the underbody panels leave parts open", measured=measured, limit=f">= {target * 100:.0f} %",
-                     margin=f"{-gap * 100:+.0f} %", counts=counts_range(20 * gap, 50 * gap))
-    return passed("the underbody is well covered", measured=measured, limit=f">= {target * 100:.0f} %")
+    if reading.beyond:
+        return minor("the underbody panels leave parts open", **reading.shown(),
+                     counts=counts_range(20 * gap, 50 * gap))
+    return passed("the underbody is well covered", **reading.shown(margin=False))
 
 
 @rule("underbody.diffuser-angle", "Diffuser angle the flow can follow", "failure",
@@ -93,17 +93,15 @@ def diffuser_angle(sheet, ctx):
         fails (failure): {features: {underbody.diffuser_angle: 16 deg}}
         passes: {features: {underbody.diffuser_angle: 8 deg}}
     """
-    degrees = math.degrees(sheet.get("underbody.diffuser_angle"))
-    separation, edge = math.degrees(ctx["separation"]), math.degrees(ctx["edge"])
-    measured = f"{degrees:.1f} deg"
-    if degrees > separation:
-        return major("the diffuser is steeper than the flow can follow: it separates", measured=measured,
-                     limit=f"<= {separation:.0f} deg", margin=f"{degrees - separation:+.1f} deg",
+    angle = sheet.get("underbody.diffuser_angle")
+    separation = Reading(angle, DEG, at_most=ctx["separation"], places=1)
+    edge = Reading(angle, DEG, at_most=ctx["edge"], places=1)
+    if separation.beyond:
+        return major("the diffuser is steeper than the flow can follow: it separates", **separation.shown(),
                      counts=counts_range(5, 20), cl_rear=-0.04)
-    if degrees > edge:
-        return minor("the diffuser angle is close to separation", measured=measured, limit=f"<= {edge:.0f} deg",
-                     margin=f"{degrees - edge:+.1f} deg", counts=counts_range(1, 5))
-    return passed("the diffuser angle is in the attached range", measured=measured, limit=f"<= {edge:.0f} deg")
+    if edge.beyond:
+        return minor("the diffuser angle is close to separation", **edge.shown(), counts=counts_range(1, 5))
+    return passed("the diffuser angle is in the attached range", **edge.shown(margin=False))
 
 
 @rule("underbody.diffuser-exposed", "Parts standing in the diffuser flow", "warning",
@@ -158,13 +156,11 @@ def pitch(sheet, ctx):
         passes: {features: {underbody.pitch: 0.3 deg}}
     """
     angle = sheet.get("underbody.pitch")
-    degrees = math.degrees(angle)
+    shown = {"measured": DEG(angle, 1, signed=True), "limit": f">= {DEG(ctx['nose_up'], 1, signed=True)}"}
     if angle < ctx["nose_up"]:
-        return minor("the underbody is pitched nose-up", measured=f"{degrees:+.1f} deg",
-                     limit=f">= {math.degrees(ctx['nose_up']):+.1f} deg", counts=counts_range(2, 6),
-                     cl_front=-0.02 * abs(degrees))
-    return passed("the underbody pitch is level or nose-down", measured=f"{degrees:+.1f} deg",
-                  limit=f">= {math.degrees(ctx['nose_up']):+.1f} deg")
+        return minor("the underbody is pitched nose-up", **shown, counts=counts_range(2, 6),
+                     cl_front=-0.02 * abs(math.degrees(angle)))
+    return passed("the underbody pitch is level or nose-down", **shown)
 
 
 @rule("underbody.diffuser-area-ratio", "Diffuser area ratio (length with ground clearance)", "warning",
@@ -199,7 +195,7 @@ def diffuser_area_ratio(sheet, ctx):
     height = sheet.get("dimensions.ground_clearance")
     rise = sheet.get("underbody.diffuser_length") * math.tan(sheet.get("underbody.diffuser_angle"))
     ratio = (height + rise) / height if height > 0 else float("inf")
-    measured = f"area ratio {ratio:.2f} ({rise * 1000:.0f} mm rise on {height * 1000:.0f} mm clearance)"
+    measured = f"area ratio {ratio:.2f} ({MM(rise)} rise on {MM(height)} clearance)"
     limit = f"{ctx['useful']:.1f}-{ctx['separation']:.1f}"
     if ratio > ctx["separation"]:
         return major("the diffuser expands the underbody flow more than it can follow", measured=measured,
@@ -234,12 +230,11 @@ def diffuser_end_step(sheet, ctx):
         fails (advisory): {features: {underbody.diffuser_end_step: 60 mm}}
         passes: {features: {underbody.diffuser_end_step: 10 mm}}
     """
-    step = sheet.get("underbody.diffuser_end_step")
-    measured, limit = f"{step * 1000:.0f} mm", f"<= {ctx['step'] * 1000:.0f} mm"
-    if step > ctx["step"]:
-        return minor("the diffuser ends below a tall step: a low-pressure pocket on the bumper", measured=measured,
-                     limit=limit, margin=f"{(step - ctx['step']) * 1000:+.0f} mm", counts=counts_range(1, 5))
-    return passed("the diffuser runs out into the base edge", measured=measured, limit=limit)
+    step = Reading(sheet.get("underbody.diffuser_end_step"), MM, at_most=ctx["step"])
+    if step.beyond:
+        return minor("the diffuser ends below a tall step: a low-pressure pocket on the bumper", **step.shown(),
+                     counts=counts_range(1, 5))
+    return passed("the diffuser runs out into the base edge", **step.shown(margin=False))
 
 
 @rule("underbody.nose-rake", "Front underbody rake ahead of the front axle", "advisory",
@@ -265,13 +260,12 @@ def nose_rake(sheet, ctx):
         fails (advisory): {features: {underbody.nose_rake: -2 deg}}
         passes: {features: {underbody.nose_rake: 4 deg}}
     """
-    degrees = math.degrees(sheet.get("underbody.nose_rake"))
-    low, high = math.degrees(ctx["minimum"]), math.degrees(ctx["maximum"])
-    measured, limit = f"{degrees:+.1f} deg", f"{low:.0f}-{high:.0f} deg"
-    if degrees < low:
-        return minor("the front underbody does not rise toward the nose: more front lift", measured=measured,
-                     limit=limit, margin=f"{degrees - low:+.1f} deg", counts=counts_range(1, 4), cl_front=-0.02)
-    if degrees > high:
-        return minor("the front underbody rises steeply: the flow separates behind the air dam", measured=measured,
-                     limit=limit, margin=f"{degrees - high:+.1f} deg", counts=counts_range(1, 3))
-    return passed("the front underbody rake is in the useful range", measured=measured, limit=limit)
+    rake = Reading(sheet.get("underbody.nose_rake"), DEG, at_least=ctx["minimum"], at_most=ctx["maximum"], places=1)
+    measured = DEG(rake.value, 1, signed=True)
+    if rake.below:
+        return minor("the front underbody does not rise toward the nose: more front lift", **rake.shown(measured),
+                     counts=counts_range(1, 4), cl_front=-0.02)
+    if rake.above:
+        return minor("the front underbody rises steeply: the flow separates behind the air dam",
+                     **rake.shown(measured), counts=counts_range(1, 3))
+    return passed("the front underbody rake is in the useful range", **rake.shown(measured, margin=False))

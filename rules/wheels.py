@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from aeroreview.display import MM, PERCENT, Reading
 from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
 WHEEL_SOURCE = Source("rim design changes a car's drag by 10-20 counts: recalled, not checked. Looked for: SAE 970133 "
@@ -48,15 +49,15 @@ def rim_openness(sheet, ctx):
     openness = sheet.get("wheels.rim_openness")
     size = (sheet.get("wheels.rim_diameter") or REFERENCE_RIM) / REFERENCE_RIM
     closable = (openness - ctx["closed"]) * size ** 2
-    measured = f"{openness * 100:.0f} % open"
-    if openness > ctx["open"]:
-        return major("the rims are open: they pump wheelhouse air into the side flow", measured=measured,
-                     limit=f"<= {ctx['open'] * 100:.0f} %", margin=f"{(openness - ctx['open']) * 100:+.0f} %",
+    measured = f"{PERCENT(openness)} open"
+    pumping, closed = Reading(openness, PERCENT, at_most=ctx["open"]), Reading(openness, PERCENT, at_most=ctx["closed"])
+    if pumping.beyond:
+        return major("the rims are open: they pump wheelhouse air into the side flow", **pumping.shown(measured),
                      counts=counts_range(30 * closable, 60 * closable))
-    if openness > ctx["closed"]:
-        return minor("the rims could be closed further", measured=measured, limit=f"<= {ctx['closed'] * 100:.0f} %",
+    if closed.beyond:
+        return minor("the rims could be closed further", **closed.shown(measured, margin=False),
                      counts=counts_range(30 * closable, 60 * closable))
-    return passed("the rims are closed", measured=measured, limit=f"<= {ctx['closed'] * 100:.0f} %")
+    return passed("the rims are closed", **closed.shown(measured, margin=False))
 
 
 @rule("wheels.front-deflector", "Deflectors ahead of the front tyres", "advisory",
@@ -81,16 +82,14 @@ def front_deflector(sheet, ctx):
         fails (advisory): {features: {wheels.front_deflector_height: 0 mm}}
         passes: {features: {wheels.front_deflector_height: 35 mm}}
     """
-    height = sheet.get("wheels.front_deflector_height")
-    limits = f"{ctx['minimum'] * 1000:.0f}-{ctx['maximum'] * 1000:.0f} mm"
-    if height < ctx["minimum"]:
-        return minor("no effective deflectors ahead of the front tyres", measured=f"{height * 1000:.0f} mm",
-                     limit=limits, counts=counts_range(2, 8))
-    if height > ctx["maximum"]:
-        return minor("the front deflectors are tall enough to add drag of their own",
-                     measured=f"{height * 1000:.0f} mm", limit=limits, counts=counts_range(1, 4))
-    return passed("the front tyre deflectors are in the useful range", measured=f"{height * 1000:.0f} mm",
-                  limit=limits)
+    height = Reading(sheet.get("wheels.front_deflector_height"), MM, at_least=ctx["minimum"], at_most=ctx["maximum"])
+    if height.below:
+        return minor("no effective deflectors ahead of the front tyres", **height.shown(margin=False),
+                     counts=counts_range(2, 8))
+    if height.above:
+        return minor("the front deflectors are tall enough to add drag of their own", **height.shown(margin=False),
+                     counts=counts_range(1, 4))
+    return passed("the front tyre deflectors are in the useful range", **height.shown(margin=False))
 
 
 @rule("wheels.rear-strakes", "Strakes ahead of the rear wheels", "advisory",
@@ -137,11 +136,10 @@ def wheelhouse_gap(sheet, ctx):
         fails (advisory): {features: {wheels.wheelhouse_gap: 70 mm}}
         passes: {features: {wheels.wheelhouse_gap: 32 mm}}
     """
-    gap = sheet.get("wheels.wheelhouse_gap")
-    if gap > ctx["gap"]:
-        return minor("the wheelhouse gap is large", measured=f"{gap * 1000:.0f} mm",
-                     limit=f"<= {ctx['gap'] * 1000:.0f} mm", counts=counts_range(2, 8))
-    return passed("the wheelhouse is tight", measured=f"{gap * 1000:.0f} mm", limit=f"<= {ctx['gap'] * 1000:.0f} mm")
+    gap = Reading(sheet.get("wheels.wheelhouse_gap"), MM, at_most=ctx["gap"])
+    if gap.beyond:
+        return minor("the wheelhouse gap is large", **gap.shown(margin=False), counts=counts_range(2, 8))
+    return passed("the wheelhouse is tight", **gap.shown(margin=False))
 
 
 @rule("wheels.wheelhouse-vent", "Front wheelhouse vented to the side", "advisory",
@@ -194,13 +192,10 @@ def rear_arch_exit(sheet, ctx):
         fails (warning): {features: {wheels.rear_arch_exit_radius: 20 mm}}
         passes: {features: {wheels.rear_arch_exit_radius: 3 mm}}
     """
-    radius = sheet.get("wheels.rear_arch_exit_radius")
-    if radius > ctx["radius"]:
-        return major("the rear arch trailing edge is rounded", measured=f"{radius * 1000:.0f} mm",
-                     limit=f"<= {ctx['radius'] * 1000:.0f} mm", margin=f"{(radius - ctx['radius']) * 1000:+.0f} mm",
-                     counts=counts_range(2, 6))
-    return passed("the rear arch trailing edge is sharp", measured=f"{radius * 1000:.0f} mm",
-                  limit=f"<= {ctx['radius'] * 1000:.0f} mm")
+    radius = Reading(sheet.get("wheels.rear_arch_exit_radius"), MM, at_most=ctx["radius"])
+    if radius.beyond:
+        return major("the rear arch trailing edge is rounded", **radius.shown(), counts=counts_range(2, 6))
+    return passed("the rear arch trailing edge is sharp", **radius.shown(margin=False))
 
 
 TYRE_SOURCE = Source("wider tyres raise drag by roughly 1-2 counts per 10 mm of section width on a passenger car; "
@@ -236,15 +231,14 @@ def tyre_width(sheet, ctx):
     share = width / sheet.get("dimensions.width")
     treated = bool(sheet.get("front.air_curtains")) or \
         (sheet.get("wheels.front_deflector_height") or 0.0) >= ctx["deflector"]
-    measured = f"{width * 1000:.0f} mm = {share * 100:.1f} % of the width; wake {'treated' if treated else 'untreated'}"
-    limit = f"<= {ctx['share'] * 100:.1f} %"
-    if share > ctx["share"]:
+    reading = Reading(share, PERCENT, at_most=ctx["share"], places=1, limit_places=1)
+    measured = f"{MM(width)} = {PERCENT(share, 1)} of the width; wake {'treated' if treated else 'untreated'}"
+    if reading.beyond:
         excess_mm = (share - ctx["share"]) * sheet.get("dimensions.width") * 1000
         scale = 0.5 if treated else 1.0
-        return minor("the tyres are wide for the car: wider wheel wakes", measured=measured, limit=limit,
-                     margin=f"{(share - ctx['share']) * 100:+.1f} %",
+        return minor("the tyres are wide for the car: wider wheel wakes", **reading.shown(measured),
                      counts=counts_range(0.1 * excess_mm * scale, 0.2 * excess_mm * scale))
-    return passed("the tyre width suits the car", measured=measured, limit=limit)
+    return passed("the tyre width suits the car", **reading.shown(measured, margin=False))
 
 
 @rule("wheels.tyre-shoulder", "Tyre shoulder shape", "advisory",

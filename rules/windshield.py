@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 
+from aeroreview.display import DEG, MM, Reading
 from aeroreview.rules import COMMON, HUCHO, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
 
 
@@ -38,18 +39,17 @@ def windshield_angle(sheet, ctx):
         passes: {features: {windshield.angle: 27 deg}}
     """
     angle = sheet.get("windshield.angle")
-    degrees = math.degrees(angle)
-    measured = f"{degrees:.1f} deg from horizontal"
-    steep = math.degrees(ctx["steep"])
-    if angle > ctx["upright"]:
-        return major("the windshield is upright; laying it back is a large gain", measured=measured,
-                     limit=f"<= {math.degrees(ctx['upright']):.0f} deg", margin=f"{degrees - math.degrees(ctx['upright']):+.1f} deg",
-                     counts=counts_range(0.7 * (degrees - steep), 1.3 * (degrees - steep)))
-    if angle > ctx["steep"]:
-        return minor("the windshield is steeper than the usual optimum", measured=measured, limit=f"<= {steep:.0f} deg",
-                     margin=f"{degrees - steep:+.1f} deg",
-                     counts=counts_range(0.7 * (degrees - steep), 1.3 * (degrees - steep)))
-    return passed("the windshield is laid back", measured=measured, limit=f"<= {steep:.0f} deg")
+    upright = Reading(angle, DEG, at_most=ctx["upright"], places=1)
+    steep = Reading(angle, DEG, at_most=ctx["steep"], places=1)
+    measured = f"{DEG(angle, 1)} from horizontal"
+    over = math.degrees(angle) - math.degrees(ctx["steep"])
+    if upright.beyond:
+        return major("the windshield is upright; laying it back is a large gain", **upright.shown(measured),
+                     counts=counts_range(0.7 * over, 1.3 * over))
+    if steep.beyond:
+        return minor("the windshield is steeper than the usual optimum", **steep.shown(measured),
+                     counts=counts_range(0.7 * over, 1.3 * over))
+    return passed("the windshield is laid back", **steep.shown(measured, margin=False))
 
 
 @rule("windshield.a-pillar-radius", "A-pillar edge radius", "warning",
@@ -76,15 +76,15 @@ def a_pillar_radius(sheet, ctx):
         passes: {features: {windshield.a_pillar_radius: 38 mm}}
     """
     radius = sheet.get("windshield.a_pillar_radius")
-    measured = f"{radius * 1000:.0f} mm"
-    if radius < ctx["sharp"]:
-        return major("the A-pillar is sharp: strong pillar vortex, drag and wind noise", measured=measured,
-                     limit=f">= {ctx['sharp'] * 1000:.0f} mm", margin=f"{(radius - ctx['sharp']) * 1000:+.0f} mm",
+    sharp = Reading(radius, MM, at_least=ctx["sharp"])
+    comfortable = Reading(radius, MM, at_least=ctx["comfortable"])
+    if sharp.beyond:
+        return major("the A-pillar is sharp: strong pillar vortex, drag and wind noise", **sharp.shown(),
                      counts=counts_range(2, 8))
-    if radius < ctx["comfortable"]:
-        return minor("the A-pillar radius leaves little margin at yaw", measured=measured,
-                     limit=f">= {ctx['comfortable'] * 1000:.0f} mm", counts=counts_range(1, 3))
-    return passed("the A-pillar is well rounded", measured=measured, limit=f">= {ctx['comfortable'] * 1000:.0f} mm")
+    if comfortable.beyond:
+        return minor("the A-pillar radius leaves little margin at yaw", **comfortable.shown(margin=False),
+                     counts=counts_range(1, 3))
+    return passed("the A-pillar is well rounded", **comfortable.shown(margin=False))
 
 
 @rule("windshield.a-pillar-step", "Step from windshield to A-pillar trim", "warning",
@@ -108,13 +108,10 @@ def a_pillar_step(sheet, ctx):
         fails (warning): {features: {windshield.a_pillar_step: 10 mm}}
         passes: {features: {windshield.a_pillar_step: 2 mm}}
     """
-    step = sheet.get("windshield.a_pillar_step")
-    measured = f"{step * 1000:.1f} mm"
-    if step > ctx["step"]:
-        return major("the A-pillar step is deep enough to trip the flow", measured=measured,
-                     limit=f"<= {ctx['step'] * 1000:.0f} mm", margin=f"{(step - ctx['step']) * 1000:+.1f} mm",
-                     counts=counts_range(1, 5))
-    return passed("the glazing is flush enough", measured=measured, limit=f"<= {ctx['step'] * 1000:.0f} mm")
+    step = Reading(sheet.get("windshield.a_pillar_step"), MM, at_most=ctx["step"], places=1)
+    if step.beyond:
+        return major("the A-pillar step is deep enough to trip the flow", **step.shown(), counts=counts_range(1, 5))
+    return passed("the glazing is flush enough", **step.shown(margin=False))
 
 
 @rule("windshield.header-radius", "Windshield header radius", "advisory",
@@ -136,12 +133,10 @@ def header_radius(sheet, ctx):
         fails (advisory): {features: {windshield.header_radius: 30 mm}}
         passes: {features: {windshield.header_radius: 120 mm}}
     """
-    radius = sheet.get("windshield.header_radius")
-    if radius < ctx["radius"]:
-        return minor("the header radius is tight", measured=f"{radius * 1000:.0f} mm",
-                     limit=f">= {ctx['radius'] * 1000:.0f} mm", counts=counts_range(1, 5))
-    return passed("the header radius is generous", measured=f"{radius * 1000:.0f} mm",
-                  limit=f">= {ctx['radius'] * 1000:.0f} mm")
+    radius = Reading(sheet.get("windshield.header_radius"), MM, at_least=ctx["radius"])
+    if radius.beyond:
+        return minor("the header radius is tight", **radius.shown(margin=False), counts=counts_range(1, 5))
+    return passed("the header radius is generous", **radius.shown(margin=False))
 
 
 @rule("windshield.wipers", "Wipers parked out of the flow", "advisory",

@@ -1,0 +1,47 @@
+"""One display helper per unit: the factors agree with pint, and no rule converts by hand.
+
+The reference for every factor is pint's unit registry (the library the sheets are read with),
+so a helper cannot drift from the unit it names.
+"""
+
+from __future__ import annotations
+
+import re
+
+import pytest
+
+from aeroreview import display
+from aeroreview.units import UNITS
+from conftest import ROOT
+
+SI = {"mm": "m", "cm^2": "m^2", "m^2": "m^2", "deg": "rad", "%": "dimensionless", "km/h": "m/s", "kg": "kg"}
+HELPERS = [unit for unit in vars(display).values() if isinstance(unit, display.Unit)]
+
+
+@pytest.mark.parametrize("unit", [u for u in HELPERS if u.symbol in SI], ids=lambda u: u.symbol)
+def test_each_helper_converts_by_the_factor_pint_gives(unit):
+    assert unit.per_si == pytest.approx(UNITS.Quantity(1.0, SI[unit.symbol]).to(unit.symbol).magnitude, rel=1e-12)
+
+
+def test_a_drag_count_is_a_thousandth_of_a_coefficient():
+    """1 drag count = 0.001 of Cd (common practice; the convention in DESIGN.md)."""
+    assert display.COUNTS(0.0125, 1) == "12.5 counts"
+
+
+def test_a_reading_shows_value_limit_and_the_margin_from_the_limit_crossed():
+    gap = display.Reading(0.0072, display.MM, at_most=0.005, places=1)
+    assert gap.beyond and gap.shown() == {"measured": "7.2 mm", "limit": "<= 5 mm", "margin": "+2.2 mm"}
+    rake = display.Reading(-0.0349066, display.DEG, at_least=0.0174533, at_most=0.20944, places=1)  # -2, 1, 12 deg
+    assert rake.below and not rake.above and rake.bound == "1-12 deg" and rake.margin == "-3.0 deg"
+    inside = display.Reading(0.5, display.PERCENT, at_least=0.2, at_most=0.9)
+    assert not inside.beyond and inside.margin is None and inside.shown("half")["measured"] == "half"
+
+
+# A conversion written into an f-string by hand: {x * 1000:.0f}, {x * 100:+.1f}, {x / 0.001:g}, {x * 3.6:.0f}.
+HAND = re.compile(r"\*\s*(?:1000|100|3\.6|1e4)\s*:|/\s*0\.001\s*:|\{math\.degrees\([^)]*\):")
+
+
+def test_no_rule_converts_a_unit_by_hand_for_display():
+    found = [f"{path.name}:{number}: {line.strip()}" for path in sorted((ROOT / "rules").glob("*.py"))
+             for number, line in enumerate(path.read_text(encoding="utf-8").splitlines(), 1) if HAND.search(line)]
+    assert not found, "use the helpers in aeroreview/display.py (MM, DEG, PERCENT, ...):\n" + "\n".join(found)
