@@ -105,7 +105,7 @@ def _report(args, reviews, problems, fail_on: str, before) -> tuple[str, bool]:
 
     Its data are dropped on return, before the collector resumes (see :func:`_collector_paused`).
     """
-    data = report.rounded(report.as_json(reviews, problems, fail_on))
+    data = report.as_json(reviews, problems, fail_on)
     if before is not None:
         baseline.apply(data, before)
     if args.format == "json":
