@@ -209,7 +209,7 @@ def as_json(fit: Fit) -> dict:
     return {
         "response": study.response, "rows": study.rows, "dropped_rows": len(study.dropped_lines),
         "ignored_columns": study.ignored, "folds": fit.folds, "condition_number": round(fit.condition_number, 2),
-        "models": {name: {"cv_r2": round(s.cv_r2, 4), "cv_rmse_counts": round(s.cv_rmse_counts, 3)}
+        "models": {name: {"cv_r2": _sig(s.cv_r2), "cv_rmse_counts": _sig(s.cv_rmse_counts)}
                    for name, s in fit.surfaces.items()},
         "sensitivities": [{"column": s.column, "feature": s.feature, "unit": s.unit,
                            "counts_per_unit": _sig(s.counts_per_unit), "ci95": [_sig(s.ci95[0]), _sig(s.ci95[1])],

@@ -9,7 +9,7 @@ import sys
 from pathlib import Path
 
 from aeroreview.calibrate import MODELS, as_json, as_text, fit_study
-from aeroreview.calibration import calibration_yaml
+from aeroreview.calibration import calibration_yaml, scope_problems
 from aeroreview.problems import UsageError
 from aeroreview.study import read_study
 
@@ -60,8 +60,27 @@ def _write_new(target: Path, text: str) -> None:
         temporary.unlink(missing_ok=True)
 
 
+def _scope(args) -> tuple[list[str], list[str]]:
+    """The vehicles and classes the calibration file will declare: a study speaks for the vehicle it is of."""
+    vehicles, classes = args.vehicle or [], args.vehicle_class or []
+    if not args.output:
+        if vehicles or classes:
+            raise UsageError("--vehicle and --vehicle-class are written into the calibration file: add --output FILE")
+        return vehicles, classes
+    if not vehicles and not classes:
+        raise UsageError("--output needs the vehicle the study is of: add --vehicle ID (the sheets' `id:`), and "
+                         "--vehicle-class CLASS only if the slopes hold for a whole class")
+    found = scope_problems(vehicles, classes)
+    if found:
+        key, i, message, hint = found[0]
+        option, given = ("--vehicle", vehicles) if key == "vehicles" else ("--vehicle-class", classes)
+        raise UsageError(f"{option} {given[i]}: {message}; {hint}")
+    return vehicles, classes
+
+
 def run(args) -> int:
     folds = _folds(args.folds)
+    vehicles, classes = _scope(args)
     if args.output:
         _refuse_existing(Path(args.output))  # before the work, not after it
     study = read_study(args.study, args.map or [], args.response)
@@ -74,7 +93,7 @@ def run(args) -> int:
         print(as_text(fit), end="")
     if args.output:
         target = Path(args.output)
-        _write_new(target, calibration_yaml(fit, _study_name(Path(args.study), target), _today()))
+        _write_new(target, calibration_yaml(fit, _study_name(Path(args.study), target), _today(), vehicles, classes))
         print(f"wrote {target}; name it under `calibrations:` in the aeroreview settings to use it", file=sys.stderr)
     return 0
 
@@ -91,4 +110,9 @@ def add_parser(sub) -> None:
     parser.add_argument("--folds", default="5", metavar="K", help="cross-validation folds (default 5)")
     parser.add_argument("--json", action="store_true", help="print JSON")
     parser.add_argument("-o", "--output", metavar="FILE", help="write the calibration (YAML) to this new file")
+    parser.add_argument("--vehicle", action="append", metavar="ID",
+                        help="with --output: the vehicle the study is of, whose findings it re-costs (repeat for "
+                             "others its slopes hold for)")
+    parser.add_argument("--vehicle-class", action="append", metavar="CLASS",
+                        help="with --output: a vehicle class the slopes hold for (repeat for more)")
     parser.set_defaults(run=run)

@@ -221,12 +221,11 @@ def _cmd_explain(args) -> int:
         sens = rule.sensitivity
         print(f"\nSensitivity: {sens.counts_per_unit:+g} counts per {sens.unit} of {sens.feature} "
               f"({sens.valid[0]:g} to {sens.valid[1]:g} {sens.unit}) [{sens.source.kind}: {sens.source.citation}]")
-        calibrated = load_settings(args.config).calibrated.get(sens.feature)
-        if calibrated:
-            cal, slope = calibrated
+        for cal, slope in load_settings(args.config).calibrated.get(sens.feature, []):
             print(f"  [team data] {cal.label}: {slope.counts_per_unit:+.3g} counts per {slope.unit} (95 % "
-                  f"{slope.ci95[0]:+.3g} to {slope.ci95[1]:+.3g}, {slope.agreement}); used inside "
-                  f"{slope.study_range[0]:g}-{slope.study_range[1]:g} {slope.unit}")
+                  f"{slope.ci95[0]:+.3g} to {slope.ci95[1]:+.3g}, {slope.agreement}); for {cal.scope}, inside "
+                  f"{slope.study_range[0]:g}-{slope.study_range[1]:g} {slope.unit} (beyond, the library estimate "
+                  "pro rata)")
     print("\nSources:")
     for source in rule.sources:
         print(f"  [{source.kind}] {source.citation}")

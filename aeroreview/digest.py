@@ -156,24 +156,24 @@ def ahmed_curve(settings: Settings, angle: float | None) -> AhmedCurve:
 
 def _speeds(review: Review) -> tuple[list[float], float]:
     top = (review.sheet.get("powertrain.top_speed") or DEFAULT_TOP_KM_H / 3.6) * 3.6
-    end = max(top, review.key_numbers["reference_speed_km_h"]) + 1
+    end = max(top, review.key_numbers.reference_speed_km_h) + 1
     return [float(v) for v in np.arange(LOWEST_SPEED_KM_H, end, SPEED_STEP_KM_H)], top
 
 
 def drag_series(review: Review, speeds: list[float], density: float) -> DragSeries:
     n = review.key_numbers
-    drag = [float(drag_force(n["cd"], n["area"], v / 3.6, density)) for v in speeds]
+    drag = [float(drag_force(n.cd, n.area, v / 3.6, density)) for v in speeds]
     return DragSeries(speeds, drag, [d * v / 3.6 / 1000 for d, v in zip(drag, speeds)])
 
 
 def lift_series(review: Review, speeds: list[float], top: float, context: Context) -> LiftSeries | None:
     sheet = review.sheet
-    if not review.key_numbers.get("lift_reference") or not sheet.has("mass.curb", "mass.front_axle_share"):
+    if not review.key_numbers.lift_reference or not sheet.has("mass.curb", "mass.front_axle_share"):
         return None
     points = [axle_figures(sheet, context, v / 3.6) for v in speeds]
     rear_static = sheet.get("mass.curb") * (1 - sheet.get("mass.front_axle_share"))
-    return LiftSeries(speeds, [p["front_kg"] for p in points], [p["rear_kg"] for p in points], rear_static, top,
-                      points[0]["cl_front"], points[0]["cl_rear"])
+    return LiftSeries(speeds, [p.front_kg for p in points], [p.rear_kg for p in points], rear_static, top,
+                      points[0].cl_front, points[0].cl_rear)
 
 
 def yaw_sweep(review: Review, speed: float) -> YawSweep | None:
@@ -297,7 +297,7 @@ def changes(before: Review, after: Review, buildups: tuple[Buildup | None, Build
         elif now_rank > 0 and was_rank > 0 and now_rank != was_rank:
             groups["worse" if now_rank > was_rank else "better"].append(FindingChange(f, was))
     within = [WithinStatus(f, old[f.rule.id].verdict.measured, _direction(old[f.rule.id], f)) for f in after.findings
-              if f.rule.id in old and f.status == old[f.rule.id].status and f.status not in ("pass", NOT_ASSESSED)
+              if f.rule.id in old and f.status == old[f.rule.id].status and f.actionable
               and f.verdict.measured != old[f.rule.id].verdict.measured]
     waived = [{(w.rule, w.reason) for w in r.sheet.waivers} for r in (before, after)]
     waivers = [WaiverChange(rule, "added", reason) for rule, reason in sorted(waived[1] - waived[0])]

@@ -23,7 +23,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
 
-from aeroreview.rules import NOT_ASSESSED, REGIONS, Source
+from aeroreview.rules import REGIONS, Source
 from aeroreview.rules.data import CLASS_CD
 
 MEMORY = "from memory"
@@ -183,7 +183,7 @@ def rescaled(frame: Frame, cd: float) -> Frame:
 
 def claim_of(finding) -> Claim | None:
     """The claim of a review finding: None when it passes, is not assessed, or costs nothing."""
-    if finding.status in ("pass", NOT_ASSESSED):
+    if not finding.actionable:
         return None
     verdict = finding.verdict
     low, high = verdict.counts or (0.0, 0.0)

@@ -22,12 +22,20 @@ from pathlib import Path
 
 
 def key(*parts: bytes | str, code: tuple[str, ...] = ()) -> str:
-    """A hash of ``parts`` and of the source files of the modules named in ``code`` (found, not imported)."""
+    """A hash of ``parts`` and of the source files of the modules named in ``code`` (found, not
+    imported; a package stands for every module in its folder)."""
     digest = hashlib.sha256()
-    for part in (*parts, *(Path(importlib.util.find_spec(name).origin).read_bytes() for name in code)):
+    for part in (*parts, *(path.read_bytes() for name in code for path in _sources(name))):
         data = part.encode() if isinstance(part, str) else part
         digest.update(len(data).to_bytes(8, "little") + data)  # length-prefixed: no two splits collide
     return digest.hexdigest()[:24]
+
+
+def _sources(module: str) -> list[Path]:
+    spec = importlib.util.find_spec(module)
+    if spec.submodule_search_locations:
+        return sorted(Path(spec.submodule_search_locations[0]).glob("*.py"))
+    return [Path(spec.origin)]
 
 
 class Memo:
@@ -42,15 +50,14 @@ class Memo:
         that raises stores nothing, so an error is reported again on the next build."""
         self.used.add(f"{name}.json")
         path = self.folder / f"{name}.json" if self.folder else None
-        if path and path.is_file():
-            return json.loads(path.read_text(encoding="utf-8"))
+        try:
+            if path and path.is_file():
+                return json.loads(path.read_text(encoding="utf-8"))
+        except (OSError, ValueError):
+            pass  # unreadable: computed again
         result = compute()
         if path:
-            path.parent.mkdir(parents=True, exist_ok=True)
-            handle, temporary = tempfile.mkstemp(prefix=f".{name}.", suffix=".tmp", dir=path.parent)
-            with os.fdopen(handle, "w", encoding="utf-8") as stream:
-                json.dump(result, stream)
-            os.replace(temporary, path)
+            _store(path, result)
         return result
 
     def evict(self) -> int:
@@ -61,3 +68,18 @@ class Memo:
         for path in stale:
             path.unlink(missing_ok=True)
         return len(stale)
+
+
+def _store(path: Path, result) -> None:
+    """Write atomically; a folder that cannot be written (a read-only checkout in CI) remembers nothing."""
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        handle, temporary = tempfile.mkstemp(prefix=f".{path.stem}.", suffix=".tmp", dir=path.parent)
+    except OSError:
+        return
+    try:
+        with os.fdopen(handle, "w", encoding="utf-8") as stream:
+            json.dump(result, stream)
+        os.replace(temporary, path)
+    except OSError:
+        Path(temporary).unlink(missing_ok=True)

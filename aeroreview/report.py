@@ -11,7 +11,7 @@ import xml.etree.ElementTree as ET
 
 from aeroreview.problems import Problem, clean
 from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, failing
-from aeroreview.rules import NOT_ASSESSED, ZONES
+from aeroreview.rules import NOT_ASSESSED, ZONES, actionable
 from aeroreview.track_record import pairs, summary
 
 
@@ -32,7 +32,8 @@ def finding_json(finding: Finding) -> dict:
         "rule": rule.id, "zone": rule.zone, "title": rule.title, "status": finding.status,
         "severity": finding.severity, "message": verdict.message, "measured": verdict.measured,
         "limit": verdict.limit, "margin": verdict.margin, "estimate": rounded(estimate),
-        "consequences": rounded(finding.consequences), "missing": list(verdict.missing), "waiver": finding.waiver,
+        "consequences": rounded(finding.consequences and finding.consequences.as_dict()),
+        "missing": list(verdict.missing), "waiver": finding.waiver and finding.waiver.as_dict(),
         "calibration": rounded(finding.calibration),
         # Sources beyond the rule's own (listed once under "rules"): the team's data when a calibration re-costed it.
         "added_sources": [s.as_dict() for s in finding.sources if s not in rule.sources],
@@ -86,7 +87,7 @@ def review_json(review: Review, fail_on: str) -> dict:
         "confidence": None if review.confidence is None else round(review.confidence, 3),
         **estimate_json(review),
         "ranked_fixes": [f.rule.id for f in review.ranked_fixes],
-        "key_numbers": rounded(review.key_numbers), "assumptions": review.assumptions,
+        "key_numbers": rounded(review.key_numbers.as_dict()), "assumptions": review.assumptions,
         "failing": [f.rule.id for f in gate],
         "findings": [{**finding_json(f), "line": finding_line(sheet, f)} for f in review.findings],
         "notices": [n.as_dict() for n in review.notices],
@@ -157,15 +158,17 @@ def as_text(data: dict, color: bool) -> str:
             unassessed = [f["rule"] for f in items if f["status"] == NOT_ASSESSED]
             lines.append(f"  {paint(title, 'bold')} {shown} (coverage {zone_score['coverage'] * 100:.0f} %), {passes} pass")
             for f in items:
-                if f["status"] in ("pass", NOT_ASSESSED):
+                if not actionable(f["status"]):
                     continue
                 waived = " " + paint(f"(waived: {escape(f['waiver']['reason'])})", "dim") if f["waiver"] and \
                     f["waiver"]["status"] == "active" else ""
                 estimate = f"; {_fmt_counts((f['estimate']['cd_counts_low'], f['estimate']['cd_counts_high']))}" \
                     if f["estimate"] and f["estimate"]["cd_counts_high"] else ""
-                if f["calibration"]:
-                    estimate += (f" (team data: {escape(f['calibration']['label'])})" if f["calibration"]["applied"]
-                                 else f" (calibration not applied: {escape(f['calibration']['note'])})")
+                calibration = f["calibration"]
+                if calibration:
+                    note = calibration.get("note")
+                    estimate += (f" (team data: {escape(calibration['label'])}{'; ' + escape(note) if note else ''})"
+                                 if calibration["applied"] else f" (calibration not applied: {escape(note)})")
                 measured = f" ({escape(f['measured'])}, limit {escape(f['limit'])})" if f["measured"] and f["limit"] else ""
                 lines.append(f"    {paint(format(f['status'], '<9'), STYLE[f['status']])} {f['rule']}: {escape(f['message'])}"
                              f"{measured}{estimate}{waived}")

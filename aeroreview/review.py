@@ -27,11 +27,13 @@ from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivit
 from aeroreview.calibration import recost, team_source
 from aeroreview.estimate import Estimate, Frame, claim_of, estimate, frame_for, score
 from aeroreview.problems import Problem
-from aeroreview.rules import FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Source, Verdict
+from aeroreview.rules import (FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Source, Verdict,
+                              actionable)
 from aeroreview.rules.data import CLASS_CD, measured_cd
 from aeroreview.rules.stability import axle_figures
 from aeroreview.settings import Settings, status_rank
 from aeroreview.sheet import Sheet
+from aeroreview.values import AppliedWaiver, Consequences, KeyNumbers
 from aeroreview.vehicle import vehicle_from_sheet
 
 UNSCORED_ZONES = ("data",)  # data quality feeds coverage and confidence, not the score
@@ -45,8 +47,8 @@ class Finding:
     status: str  # pass, advisory, warning, failure, not assessed
     severity: str
     verdict: Verdict
-    waiver: dict | None = None  # {"status": "active"|"expired", "reason", "by", "expires"}
-    consequences: dict | None = None
+    waiver: AppliedWaiver | None = None
+    consequences: Consequences | None = None
     fix: str = ""  # how to fix, with the thresholds the rule ran with
     calibration: dict | None = None  # set when a team calibration re-costed the fix (aeroreview.calibration)
 
@@ -58,13 +60,16 @@ class Finding:
 
     @property
     def waived(self) -> bool:
-        return bool(self.waiver and self.waiver["status"] == "active")
+        return bool(self.waiver and self.waiver.active)
+
+    @property
+    def actionable(self) -> bool:
+        """Whether the finding asks for action (it neither passes nor lacks the data to judge)."""
+        return actionable(self.status)
 
     @property
     def counts(self) -> tuple[float, float] | None:
-        if self.status in ("pass", NOT_ASSESSED):
-            return None
-        return self.verdict.counts
+        return self.verdict.counts if self.actionable else None
 
     @property
     def benefit(self) -> float:
@@ -93,7 +98,7 @@ class Review:
     coverage: float
     estimate: Estimate
     frame: Frame
-    key_numbers: dict
+    key_numbers: KeyNumbers
     confidence: float | None = None  # share of assessed data-quality checks that pass
     assumptions: list[str] = field(default_factory=list)
     notices: list[Problem] = field(default_factory=list)
@@ -115,7 +120,7 @@ class Review:
 
 
 def _status(level: str, severity: str) -> str:
-    if level in ("pass", NOT_ASSESSED):
+    if not actionable(level):
         return level
     if level == "major":
         return severity
@@ -158,34 +163,21 @@ def _vehicle(sheet: Sheet) -> tuple[Vehicle, dict, list[str]]:
     return vehicle, {"cd": cd, "cd_source": source, "cd_estimated": estimated, "area": area}, assumptions + more
 
 
-def _key_numbers(sheet: Sheet, settings: Settings, context: Context, vehicle: Vehicle, cd_info: dict) -> dict:
+def _key_numbers(sheet: Sheet, settings: Settings, context: Context, vehicle: Vehicle, cd_info: dict) -> KeyNumbers:
     cycle = cycle_by_name(settings.cycle)
     energy = cycle_energy(cycle, vehicle, context.density)
     drag = float(drag_force(vehicle.cd, vehicle.area, settings.reference_speed, context.density))
-    numbers = {
-        **cd_info, "cda": vehicle.cd * vehicle.area, "reference_speed_km_h": settings.reference_speed * 3.6,
-        "drag_N": drag, "drag_power_kW": drag * settings.reference_speed / 1000, "cycle": cycle.name,
-        "energy_kWh_per_100km": energy.kwh_per_100km, "aero_share": energy.aero_share,
-        "energy_breakdown_kWh": {"rolling": energy.rolling / 3.6e6, "aero": energy.aero / 3.6e6,
-                                 "braking": energy.braking / 3.6e6, "recovered": energy.recovered / 3.6e6},
-        "litres_per_100km": energy.litres_per_100km, "range_km": range_km(energy, vehicle),
-        "per_10_counts": sensitivities(cycle, vehicle, context.density, 10.0, energy),
-        "lift_reference": axle_figures(sheet, context, settings.reference_speed),
-        "lift_top_speed": axle_figures(sheet, context, sheet.get("powertrain.top_speed"))
-        if sheet.has("powertrain.top_speed") else None,
-    }
-    return numbers
-
-
-def _consequences(counts: tuple[float, float], per_count: dict, power_per_count: float) -> dict:
-    low, high = counts
-    out = {"power_W_at_reference_speed": [power_per_count * low, power_per_count * high],
-           "energy_kWh_per_100km": [per_count["kwh_per_100km"] * low, per_count["kwh_per_100km"] * high]}
-    if per_count.get("range_km") is not None:
-        out["range_km"] = [-per_count["range_km"] * low, -per_count["range_km"] * high]
-    if per_count.get("litres_per_100km") is not None:
-        out["litres_per_100km"] = [per_count["litres_per_100km"] * low, per_count["litres_per_100km"] * high]
-    return out
+    return KeyNumbers(
+        **cd_info, cda=vehicle.cd * vehicle.area, reference_speed_km_h=settings.reference_speed * 3.6,
+        drag_N=drag, drag_power_kW=drag * settings.reference_speed / 1000, cycle=cycle.name,
+        energy_kWh_per_100km=energy.kwh_per_100km, aero_share=energy.aero_share,
+        energy_breakdown_kWh={"rolling": energy.rolling / 3.6e6, "aero": energy.aero / 3.6e6,
+                              "braking": energy.braking / 3.6e6, "recovered": energy.recovered / 3.6e6},
+        litres_per_100km=energy.litres_per_100km, range_km=range_km(energy, vehicle),
+        per_10_counts=sensitivities(cycle, vehicle, context.density, 10.0, energy),
+        lift_reference=axle_figures(sheet, context, settings.reference_speed),
+        lift_top_speed=axle_figures(sheet, context, sheet.get("powertrain.top_speed"))
+        if sheet.has("powertrain.top_speed") else None)
 
 
 def _apply_waivers(sheet: Sheet, findings: dict[str, Finding], today: _dt.date) -> list[Problem]:
@@ -195,13 +187,13 @@ def _apply_waivers(sheet: Sheet, findings: dict[str, Finding], today: _dt.date) 
         if finding is None:
             continue  # a disabled or inapplicable rule: nothing to waive
         expired = waiver.expires is not None and waiver.expires < today
-        finding.waiver = {"status": "expired" if expired else "active", "reason": waiver.reason, "by": waiver.by,
-                          "expires": waiver.expires.isoformat() if waiver.expires else None}
+        finding.waiver = AppliedWaiver("expired" if expired else "active", waiver.reason, waiver.by,
+                                       waiver.expires.isoformat() if waiver.expires else None)
         if expired:
             notices.append(Problem(sheet.path, waiver.line, 1, f"the waiver for {waiver.rule} expired on "
                                    f"{waiver.expires.isoformat()} and no longer applies",
                                    "renew it with a new date and reason, or fix the finding", "warning"))
-        elif finding.status in ("pass", NOT_ASSESSED):
+        elif not finding.actionable:
             notices.append(Problem(sheet.path, waiver.line, 1, f"the waiver for {waiver.rule} is not needed: "
                                    f"the rule reports '{finding.status}'", "remove the waiver", "warning"))
     return notices
@@ -221,16 +213,16 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     vehicle, cd_info, assumptions = _vehicle(sheet)
     numbers = _key_numbers(sheet, settings, context, vehicle, cd_info)
     # Per count: a tenth of the 10-count sensitivity (the energy is nearly linear in Cd).
-    per_count = {k: (v / 10 if v is not None else None) for k, v in numbers["per_10_counts"][numbers["cycle"]].items()}
+    per_count = {k: (v / 10 if v is not None else None) for k, v in numbers.per_10_counts[numbers.cycle].items()}
     power_per_count = float(drag_force(0.001, vehicle.area, settings.reference_speed, air.density)) \
         * settings.reference_speed
     for finding in findings.values():
         if finding.counts:
-            finding.consequences = _consequences(finding.counts, per_count, power_per_count)
+            finding.consequences = Consequences.of(finding.counts, per_count, power_per_count)
 
-    lift = numbers["lift_reference"]
+    lift = numbers.lift_reference
     ranked = _ranked(findings.values())
-    frame = frame_for(sheet, numbers["cd"], settings.estimates, lift and (lift["cl_front"], lift["cl_rear"]),
+    frame = frame_for(sheet, numbers.cd, settings.estimates, lift and (lift.cl_front, lift.cl_rear),
                       {f.rule.id for f in ranked})
     claims = [c for c in map(claim_of, ranked + [f for f in findings.values() if not f.counts]) if c]
     by_zone: dict[str, list[Finding]] = {zone: [] for zone in ZONES}

@@ -15,7 +15,7 @@ from pathlib import PurePath
 from urllib.parse import quote
 
 from aeroreview import __version__
-from aeroreview.rules import NOT_ASSESSED, all_rules
+from aeroreview.rules import actionable, all_rules
 
 SCHEMA = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
 # SARIF levels (SARIF 2.1.0 section 3.27.10) for our statuses and severities.
@@ -73,7 +73,7 @@ def as_sarif(data: dict) -> str:
     for sheet in data["sheets"]:
         gate = set(sheet["failing"])
         for finding in sheet["findings"]:
-            if finding["status"] in ("pass", NOT_ASSESSED):
+            if not actionable(finding["status"]):
                 continue
             result = {"ruleId": finding["rule"], "ruleIndex": index[finding["rule"]],
                       "level": LEVEL[finding["status"]], "message": {"text": _message(finding, fixes[finding["rule"]])},

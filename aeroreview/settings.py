@@ -13,14 +13,16 @@ site always agree::
           rules:
             rear.backlight-angle: {severity: warning, thresholds: {critical_low: 27 deg}}
             wheels.rear-strakes: {disabled: true}
-          calibrations: [studies/tessel/rear-doe.calibration.yaml]   # aeroreview calibrate
+          calibrations:                   # aeroreview calibrate ... --vehicle tessel --output FILE
+            - studies/tessel/rear-doe.calibration.yaml          # for the vehicles the file declares
+            - {file: studies/doe.yaml, vehicles: [quillon], classes: [suv]}   # and for these too
 
 Unknown keys, rule ids and threshold names are errors, located in the file.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from functools import cached_property, lru_cache
 from pathlib import Path
 
@@ -90,7 +92,7 @@ class Settings:
 
     @cached_property
     def calibrated(self) -> dict:
-        """The team's drag slope of each calibrated feature (:func:`aeroreview.calibration.index`)."""
+        """Each calibrated feature's team drag slopes, with their scopes (:func:`aeroreview.calibration.index`)."""
         return calibration.index(self.calibrations)
 
     @property
@@ -194,21 +196,41 @@ def from_mapping(section: dict, doc: yamldoc.Document, path: tuple, root: Path) 
 CALIBRATION_SUFFIXES = (".yaml", ".yml")
 
 
-def _calibrations(names, root: Path, error, problems) -> list[calibration.Calibration]:
-    if not isinstance(names, list):
+def _calibrations(entries, root: Path, error, problems) -> list[calibration.Calibration]:
+    """Each entry is a file, or ``{file, vehicles, classes}`` widening the scope the file declares."""
+    if not isinstance(entries, list):
         error(("calibrations",), "'calibrations' must be a list of files", "e.g. calibrations: [studies/doe.yaml]")
         return []
     out = []
-    for i, name in enumerate(names):
+    for i, entry in enumerate(entries):
+        where = ("calibrations", i)
+        vehicles, classes, name = (), (), entry
+        if isinstance(entry, dict):
+            vehicles, classes = calibration.read_scope(entry, where, error, extra=("file",))
+            name = entry.get("file")
+            where += ("file",) if "file" in entry else ()
+        if not isinstance(name, str):
+            error(where, "a calibration entry is a file name or {file: FILE, vehicles: [...], classes: [...]}",
+                  "e.g. - {file: studies/doe.yaml, vehicles: [quillon]}")
+            continue
         try:
             target = contained_file(root, name, CALIBRATION_SUFFIXES, "calibration", "a calibration file (YAML)")
         except PathProblem as problem:
-            error(("calibrations", i), str(problem), problem.hint)
+            error(where, str(problem), problem.hint)
             continue
         try:
-            out.append(calibration.load_calibration(target, name))
+            cal = calibration.load_calibration(target, name)
         except InputError as failure:
             problems.extend(failure.problems)
+            continue
+        cal = replace(cal, vehicles=tuple(dict.fromkeys(cal.vehicles + vehicles)),
+                      classes=tuple(dict.fromkeys(cal.classes + classes)))
+        if not cal.vehicles and not cal.classes:
+            error(("calibrations", i), f"{name} declares no vehicle or class its slopes hold for, so it would change "
+                  "nothing", "refit it with `aeroreview calibrate ... --vehicle ID`, or write "
+                  f"{{file: {name}, vehicles: [ID]}} here")
+            continue
+        out.append(cal)
     return out
 
 

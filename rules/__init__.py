@@ -143,6 +143,11 @@ class Verdict:
     details: dict | None = None
 
 
+def actionable(status: str) -> bool:
+    """Whether a status (or a verdict level) asks for action: neither a pass nor "not assessed"."""
+    return status != "pass" and status != NOT_ASSESSED
+
+
 def passed(message: str, **extra) -> Verdict:
     return Verdict("pass", message, **extra)
 

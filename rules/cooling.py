@@ -77,8 +77,9 @@ def inlet_area(sheet, ctx):
                       "3-12 on an electric one whose inlets are smaller; recalled, not checked", "from memory"),
                Source("de Souza, Raeesi, Belzile, Caffrey and Schmitt, 'Investigation of drag reduction technologies "
                       "for light-duty vehicles...', SAE Int. J. Adv. Curr. Pract. Mobil. 1(3) (2019) 1233-1250, "
-                      "doi 10.4271/2019-01-0644 (title/authors/venue and abstract checked): active grille shutters "
-                      "among the technologies measured full scale; the counts are not from it", "published")))
+                      "doi 10.4271/2019-01-0644 (title/authors/year/venue and abstract checked on a PMC copy): active "
+                      "grille shutters among the technologies measured full scale; the counts are not from it",
+                      "published")))
 def shutters(sheet, ctx):
     """
     What it checks: whether the cooling inlets can be closed when cooling is not needed.

@@ -8,6 +8,7 @@ stability must be confirmed by test before a vehicle is driven at speed.
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -28,7 +29,29 @@ def lift_result(sheet):
     return min(with_lift, key=lambda r: (r.scale < 1, r.kind == "estimate"), default=None)
 
 
-def axle_figures(sheet, ctx, speed: float) -> dict | None:
+@dataclass(frozen=True)
+class AxleFigures:
+    """Lift on each axle at one speed: force [N], in kg, and as a share of the static axle load."""
+
+    speed_km_h: float
+    front_N: float
+    rear_N: float
+    front_kg: float
+    rear_kg: float
+    front_share: float
+    rear_share: float
+    cl_front: float
+    cl_rear: float
+    result: str  # the label of the result the coefficients come from
+
+    def kg(self, axle: str) -> float:
+        return self.front_kg if axle == "front" else self.rear_kg
+
+    def share(self, axle: str) -> float:
+        return self.front_share if axle == "front" else self.rear_share
+
+
+def axle_figures(sheet, ctx, speed: float) -> AxleFigures | None:
     """Lift per axle [N, kg] and as a share of the static axle load at ``speed`` [m/s]."""
     result = lift_result(sheet)
     area = result.reference_area or sheet.get("dimensions.frontal_area") if result else None
@@ -37,9 +60,8 @@ def axle_figures(sheet, ctx, speed: float) -> dict | None:
     front, rear = (float(x) for x in axle_lift(result.cl_front, result.cl_rear, area, speed, ctx.density))
     share_front, share_rear = (float(x) for x in axle_load_share(front, rear, sheet.get("mass.curb"),
                                                                  sheet.get("mass.front_axle_share")))
-    return {"speed_km_h": speed * 3.6, "front_N": front, "rear_N": rear, "front_kg": float(kilograms_force(front)),
-            "rear_kg": float(kilograms_force(rear)), "front_share": share_front, "rear_share": share_rear,
-            "cl_front": result.cl_front, "cl_rear": result.cl_rear, "result": result.label}
+    return AxleFigures(speed * 3.6, front, rear, float(kilograms_force(front)), float(kilograms_force(rear)),
+                       share_front, share_rear, result.cl_front, result.cl_rear, result.label)
 
 
 def _unloading(sheet, ctx, axle: str):
@@ -49,12 +71,12 @@ def _unloading(sheet, ctx, axle: str):
                             missing=("results[].cl_front", "results[].cl_rear"))
     reference_speed = ctx.reference_speed
     reference = axle_figures(sheet, ctx, reference_speed)
-    share, kg = top[f"{axle}_share"], top[f"{axle}_kg"]
+    share, kg = top.share(axle), top.kg(axle)
     strict = sheet.get("vehicle.class") in STRICT_CLASSES or sheet.get("powertrain.top_speed") > ctx["fast"]
     factor = STRICT_FACTOR if strict else 1.0
     ctx = {"major_share": ctx["major_share"] * factor, "minor_share": ctx["minor_share"] * factor}
     measured = (f"{PERCENT(share, 1, signed=True)} of the static {axle} axle load ({KG(kg, signed=True)}) at "
-                f"{KM_H(sheet.get('powertrain.top_speed'))}; {KG(reference[f'{axle}_kg'], signed=True)} at "
+                f"{KM_H(sheet.get('powertrain.top_speed'))}; {KG(reference.kg(axle), signed=True)} at "
                 f"{KM_H(reference_speed)}")
     details = {"top_speed": top, "reference_speed": reference, "strict_limits": strict}
     unacceptable = Reading(share, PERCENT, at_most=ctx["major_share"], places=1)
@@ -173,11 +195,16 @@ def lift_balance(sheet, ctx):
     return passed("the lift balance is front-biased or even", measured=measured, limit=f"<= {ctx['minor_excess']:+.2f}")
 
 
-def sweep_at(sheet, field: str, angle: float) -> tuple[float, float] | None:
-    """``field`` of the yaw sweeps (|yaw| folded) interpolated at 0 and ``angle`` [deg]; None if not covered."""
+def sweep_at(sheet, field: str, angle: float, odd: bool = False) -> tuple[float, float] | None:
+    """``field`` of the yaw sweeps (|yaw| folded) interpolated at 0 and ``angle`` [deg]; None if not covered.
+
+    ``odd``: the field changes sign with yaw (side force, yawing moment), so it is folded with
+    the sign of yaw; otherwise (drag, lift) +yaw and -yaw are averaged as they are.
+    """
     by_angle: dict[float, list[float]] = {}
     for point in (p for r in sheet.results for p in r.yaw_sweep if getattr(p, field) is not None):
-        by_angle.setdefault(round(abs(math.degrees(point.yaw)), 6), []).append(getattr(point, field))
+        sign = -1.0 if odd and point.yaw < 0 else 1.0
+        by_angle.setdefault(round(abs(math.degrees(point.yaw)), 6), []).append(sign * getattr(point, field))
     if not by_angle or min(by_angle) > 0 or max(by_angle) < angle:
         return None
     angles = sorted(by_angle)
@@ -371,3 +398,66 @@ def wind_averaged_drag(sheet, ctx):
                      limit=f"<= {ctx['ratio']:.2f}", margin=f"{ratio - ctx['ratio']:+.3f}")
     return passed("the wind-averaged drag is close to the zero-yaw figure", measured=measured,
                   limit=f"<= {ctx['ratio']:.2f}")
+
+
+YAW_MOMENT_SOURCE = Source("yawing moment of passenger cars (SAE J1594 coefficient, on the frontal area and the "
+                           "wheelbase): a rise of about 0.04-0.06 from 0 to 10 deg of yaw is usual, more points at a "
+                           "crosswind-sensitive body; recalled, not checked. Checked on an online course summary of "
+                           "crosswind aerodynamics: it grows almost linearly with yaw up to about 20 deg; rounded hood "
+                           "edges and A-pillars lower it, a rounder nose in plan view and rounded rear side edges raise "
+                           "it", "from memory")
+CROSSWIND = Source("Hucho and Emmelmann, 'Theoretical prediction of the aerodynamic derivatives of a vehicle in cross "
+                   "wind gusts', in Automotive Aerodynamics, SAE PT-78-16 (1978) 129-137 (title, authors, year, venue "
+                   "and summary checked on a library record): the side force and yawing moment derivatives govern a "
+                   "car's crosswind sensitivity", "published")
+
+
+@rule("stability.yaw-moment", "Growth of the yawing moment with yaw", "warning", needs=(),
+      thresholds=(Threshold("moderate", "0.06", "", "rise of cym from 0 to 10 deg of yaw that needs attention",
+                            YAW_MOMENT_SOURCE),
+                  Threshold("steep", "0.08", "", "rise of cym from 0 to 10 deg of yaw that is too steep",
+                            YAW_MOMENT_SOURCE)),
+      sources=(YAW_MOMENT_SOURCE, CROSSWIND, Source("effect: none on drag or axle lift; a crosswind handling risk, so "
+                                                    "no counts; common practice", "common practice")))
+def yaw_moment(sheet, ctx):
+    """
+    What it checks: how much the yawing moment coefficient (cym, SAE J1594: on the frontal
+    area and the wheelbase, about mid-wheelbase on the ground) grows from 0 to 10 deg of yaw
+    in the sheet's yaw sweep, its sign folded with the sign of yaw.
+
+    Why it matters: a gust or an overtaking truck puts the car at yaw; the yawing moment then
+    turns it, and the steeper the moment grows with yaw, the harder the driver must correct.
+    A body that is sensitive here feels nervous in crosswind and on exposed bridges, whatever
+    its drag.
+
+    How to fix: take side force off the nose or put it on the tail: rounded hood side edges
+    and A-pillars carry less side force at the front, sharp rear side edges more at the rear
+    (a rounder nose in plan view and rounded rear side edges do the opposite, so a fix for drag
+    at yaw can cost here); keep the rise below {moderate} per 10 deg. Confirm crosswind
+    behaviour on a proving ground, in a crosswind facility or on gusty days.
+
+    Known limits: needs a sweep with cym from 0 to at least 10 deg (interpolated between
+    measured angles); quasi-steady, while gusts are transient; how much moment a car tolerates
+    depends on its tyres, steering and mass, so the limits are a review aid, not a criterion.
+
+    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
+        fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04,
+            yaw_sweep: [{yaw: 0 deg, cd: 0.25, cym: 0.0}, {yaw: 5 deg, cd: 0.25, cym: 0.045}, {yaw: 10 deg, cd: 0.25,
+            cym: 0.09}]}]}
+        passes: {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.02, cl_rear: 0.04, yaw_sweep:
+            [{yaw: 0 deg, cd: 0.25, cym: 0.0}, {yaw: 10 deg, cd: 0.25, cym: 0.045}, {yaw: -10 deg, cd: 0.25,
+            cym: -0.045}]}]}
+    """
+    found = sweep_at(sheet, "cym", 10, odd=True)
+    if found is None:
+        return not_assessed("needs a yaw sweep with the yawing moment from 0 to at least 10 deg",
+                            missing=("results[].yaw_sweep[].cym",))
+    growth = abs(found[1] - found[0])
+    measured = f"cym rises by {growth:.3f} from 0 to 10 deg"
+    if growth > ctx["steep"]:
+        return major("the yawing moment grows steeply with yaw", measured=measured, limit=f"<= {ctx['steep']:.2f}",
+                     margin=f"{growth - ctx['steep']:+.3f}")
+    if growth > ctx["moderate"]:
+        return minor("the yawing moment grows noticeably with yaw", measured=measured,
+                     limit=f"<= {ctx['moderate']:.2f}", margin=f"{growth - ctx['moderate']:+.3f}")
+    return passed("the yawing moment grows moderately with yaw", measured=measured, limit=f"<= {ctx['moderate']:.2f}")

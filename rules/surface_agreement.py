@@ -11,6 +11,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from aeroreview import catalogue
+from aeroreview.display import DEG, PERCENT
 from aeroreview.rules import COMMON, Source, Threshold, major, not_assessed, passed, rule
 from aeroreview.units import format_quantity
 
@@ -53,7 +54,7 @@ class Comparison:
         return abs(self.sheet - self.surface) <= self.tolerance
 
     def numbers(self) -> str:
-        """``sheet 10 mm, surface 30 mm``, in the feature's unit."""
+        """``sheet 10 mm, surface 30 mm``, in the feature's unit (any feature: three significant figures)."""
         unit = catalogue.feature(self.key).unit
         return f"sheet {format_quantity(self.sheet, unit)}, surface {format_quantity(self.surface, unit)}"
 
@@ -74,8 +75,8 @@ def compare(key: str, sheet: float, measured: float,
 
 
 def _limit(ctx) -> str:
-    return (f"angles ±{format_quantity(ctx['angle'], 'deg')}, lengths and areas ±{format_quantity(ctx['size'], '%')}, "
-            f"radii ±{format_quantity(ctx['radius'], '%')}")
+    return f"angles ±{DEG(ctx['angle'], None)}, lengths and areas ±{PERCENT(ctx['size'], None)}, " \
+           f"radii ±{PERCENT(ctx['radius'], None)}"
 
 
 @rule("data.surface-agreement", "Sheet values against the sheet's own surface", "warning",

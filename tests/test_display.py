@@ -45,3 +45,15 @@ def test_no_rule_converts_a_unit_by_hand_for_display():
     found = [f"{path.name}:{number}: {line.strip()}" for path in sorted((ROOT / "rules").glob("*.py"))
              for number, line in enumerate(path.read_text(encoding="utf-8").splitlines(), 1) if HAND.search(line)]
     assert not found, "use the helpers in aeroreview/display.py (MM, DEG, PERCENT, ...):\n" + "\n".join(found)
+
+
+# A finding asks for action unless it passes or is not assessed: one definition (aeroreview.rules.actionable).
+STATUS_PAIR = re.compile(r"""in \(\s*["']pass["'],\s*NOT_ASSESSED\s*\)""")
+
+
+def test_the_actionable_test_is_written_once():
+    found = [f"{path.relative_to(ROOT)}:{number}" for folder in ("aeroreview", "rules")
+             for path in sorted((ROOT / folder).rglob("*.py"))
+             for number, line in enumerate(path.read_text(encoding="utf-8").splitlines(), 1)
+             if STATUS_PAIR.search(line)]
+    assert not found, "use Finding.actionable or aeroreview.rules.actionable(status): " + ", ".join(found)

@@ -158,7 +158,7 @@ def test_settings_reference_speed_and_air(tmp_path):
     assert settings.reference_speed == pytest.approx(100 / 3.6)
     assert settings.air().temperature == pytest.approx(303.15) and settings.fail_on == "warning"
     review = review_sheet(load_fleet([VEHICLES / "tessel" / "r2.yaml"]).sheets[0], settings)
-    assert review.key_numbers["reference_speed_km_h"] == pytest.approx(100)
+    assert review.key_numbers.reference_speed_km_h == pytest.approx(100)
 
 
 @pytest.mark.parametrize("body, message", [

@@ -18,7 +18,7 @@ from aeroreview.rules import all_rules
 from aeroreview.settings import Settings
 from aeroreview.sheet import Result, YawPoint, load_sheet
 from aeroreview.units import to_si
-from conftest import DEMO_SHEETS, run_cli
+from conftest import DEMO_SHEETS, VEHICLES, run_cli
 from test_rules import CLEAN, lift_result, status, with_features
 
 
@@ -163,6 +163,48 @@ def test_yaw_front_lift():
     assert status("stability.yaw-front-lift", with_features(results=lift_result(0.02, 0.04, quick))) == "warning"
     some = sweep(((0, 0.02), (10, 0.08)), "cl_front")
     assert status("stability.yaw-front-lift", with_features(results=lift_result(0.02, 0.04, some))) == "advisory"
+
+
+def test_side_force_and_moments_are_read_per_result_and_per_yaw_point(write_sheet):
+    """SAE J1594 names side force, yawing and pitching moment beside drag and lift; a sheet gives
+    them as cs, cym, cpm on a result and on each yaw point, and a moment beyond +-3 is refused."""
+    text = (VEHICLES / "tessel/r2.yaml").read_text(encoding="utf-8").split("\nresults:")[0] + """
+results:
+  - kind: tunnel
+    cd: 0.25
+    cs: 0.01
+    cym: 0.002
+    cpm: -0.01
+    yaw_sweep:
+      - {yaw: 0 deg, cd: 0.25, cs: 0.0, cym: 0.0, cpm: -0.01}
+      - {yaw: -10 deg, cd: 0.27, cs: -0.35, cym: -0.05, cpm: -0.012}
+"""
+    result = load_sheet(write_sheet(text)).results[0]
+    assert (result.cs, result.cym, result.cpm) == (0.01, 0.002, -0.01)
+    assert [(p.cs, p.cym, p.cpm) for p in result.yaw_sweep] == [(-0.35, -0.05, -0.012), (0.0, 0.0, -0.01)]
+    bad = run_cli("check", str(write_sheet(text.replace("cym: -0.05", "cym: -5"), "bad.yaml")))
+    assert bad.code == 2 and "bad.yaml:" in bad.err and "cym" in bad.err
+
+
+def test_yaw_moment_growth():
+    """Thresholds of stability.yaw-moment: a rise of cym over 0.06 from 0 to 10 deg needs attention,
+    over 0.08 is too steep; cym changes sign with yaw, so -10 deg counts with its sign turned."""
+    assert status("stability.yaw-moment", CLEAN) == "pass"  # tessel r2: +0.045 and -0.046 at +-10 deg
+    assert status("stability.yaw-moment", with_features(results=lift_result(0.02, 0.04))) == "not assessed"
+    def moment(pairs):
+        return with_features(results=lift_result(0.02, 0.04, sweep(pairs, "cym")))
+    assert status("stability.yaw-moment", moment(((0, 0.0), (10, 0.045)))) == "pass"
+    assert status("stability.yaw-moment", moment(((0, 0.0), (10, 0.06)))) == "pass"  # at the limit
+    assert status("stability.yaw-moment", moment(((0, 0.0), (10, 0.0605)))) == "advisory"
+    assert status("stability.yaw-moment", moment(((0, 0.0), (10, 0.08)))) == "advisory"
+    assert status("stability.yaw-moment", moment(((0, 0.0), (10, 0.0805)))) == "warning"
+    # both sides, antisymmetric: folded to 0.07 at 10 deg (a plain average would give 0 and pass)
+    assert status("stability.yaw-moment", moment(((0, 0.0), (10, 0.07), (-10, -0.07)))) == "advisory"
+    assert status("stability.yaw-moment", moment(((0, 0.0), (-10, -0.09)))) == "warning"
+    # interpolated at 10 deg between 5 and 15 deg: 0.03 + (0.12 - 0.03) / 2 = 0.075
+    found = finding("stability.yaw-moment", moment(((0, 0.0), (5, 0.03), (15, 0.12))))
+    assert found.status == "advisory" and "0.075" in found.verdict.measured
+    assert status("stability.yaw-moment", moment(((0, 0.0), (5, 0.03)))) == "not assessed"  # short of 10 deg
 
 
 # -- what each rule reads, and the catalogue's coverage -------------------------------------------

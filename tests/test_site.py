@@ -165,6 +165,13 @@ def test_calibration_page_shows_the_team_data_and_the_rules_link_to_it(demo_site
     assert "differs in size" in page and "agrees" in page
     rule = (demo_site / "rules/underbody.diffuser-angle.html").read_text()
     assert "calibrations/studies-tessel-rear-doe-calibration.html" in rule and "Team data" in rule
+    assert "cross-validated R^2 0.97, RMSE 1.8 counts" in unescape(rule) and "for vehicle tessel" in unescape(rule)
+    assert "vehicle tessel (other vehicles keep the library estimates)" in page
+    reached = page[page.rindex("Findings it re-costs"):page.rindex("How much of the study")]  # the text, not the TOC
+    assert "tessel@r1" in reached and "rules/underbody.diffuser-angle" in reached and "quillon" not in reached
+    quillon = unescape((demo_site / "fleet/quillon/r1.html").read_text())
+    assert "calibration not applied: studies/tessel/rear-doe.calibration.yaml is calibrated for vehicle tessel" \
+        in quillon
     revision = unescape((demo_site / "fleet/tessel/r1.html").read_text())
-    assert "calibrated on studies/tessel/rear-doe.calibration.yaml (47 rows, cross-validated R^2 0.97)" in revision
+    assert "calibrated on studies/tessel/rear-doe.calibration.yaml (47 rows, cross-validated R^2 0.97, RMSE 1.8 counts)" in revision
     assert "(team data)" in revision

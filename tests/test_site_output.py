@@ -11,6 +11,7 @@ import os
 import shutil
 import subprocess
 import sys
+import time
 from pathlib import Path
 
 import pytest
@@ -103,6 +104,17 @@ build_site(sys.argv[3], sys.argv[4])
 """
 
 
+def settled_names(folder: Path) -> list[str]:
+    """The build's names left beside the output once the detached removal of the old site is done
+    (it runs after the command returned; give it up to 20 s on a loaded machine)."""
+    for _ in range(200):
+        names = sorted(p.name for p in folder.glob(".out.aeroreview-*"))
+        if names == [".out.aeroreview-lock"]:
+            break
+        time.sleep(0.1)
+    return names
+
+
 def killed_build(kb: Path, out: Path, stage: str, exchange: bool) -> int:
     done = subprocess.run([sys.executable, "-c", KILLED_BUILD, stage, "exchange" if exchange else "renames",
                            str(kb / "mkdocs.yml"), str(out)], capture_output=True, text=True, timeout=300)
@@ -123,7 +135,19 @@ def test_a_build_killed_at_each_stage_of_the_swap_leaves_a_complete_site(kb, tmp
         run = site_build(kb, out)  # the next build repairs and cleans up
         assert run.code == 0, run.err
         assert complete(out), stage
-        assert sorted(p.name for p in tmp_path.glob(".out.aeroreview-*")) == [".out.aeroreview-lock"], stage
+        assert settled_names(tmp_path) == [".out.aeroreview-lock"], stage
+
+
+@pytest.mark.parametrize("exchange", [True, False], ids=["exchange", "two-renames"])
+def test_the_old_site_is_removed_after_the_swap(kb, tmp_path, exchange):
+    """The swapped-out site goes to a detached removal under a leftover name; nothing stays behind."""
+    out = tmp_path / "out"
+    assert site_build(kb, out).code == 0
+    (out / "from-the-old-build.txt").write_text("old")
+    assert killed_build(kb, out, "never", exchange) == 0  # a whole build, through exchange or two renames
+    assert complete(out) and not (out / "from-the-old-build.txt").exists()
+    assert settled_names(tmp_path) == [".out.aeroreview-lock"]
+    assert not any("from-the-old-build.txt" in p.name for p in tmp_path.rglob("*"))
 
 
 def test_kill_between_the_renames_is_repaired_before_anything_else(kb, tmp_path):
@@ -156,7 +180,7 @@ def test_two_concurrent_builds_into_one_folder_both_succeed(kb, tmp_path):
     results = [b.communicate(timeout=300) + (b.returncode,) for b in builds]
     assert [code for _, _, code in results] == [0, 0], results
     assert complete(out)
-    assert sorted(p.name for p in tmp_path.glob(".out.aeroreview-*")) == [".out.aeroreview-lock"]
+    assert settled_names(tmp_path) == [".out.aeroreview-lock"]
 
 
 def test_plain_mkdocs_build_refuses_the_sheets_folder(kb):

@@ -143,7 +143,7 @@ def test_the_measurement_is_cached_by_content_and_options(tmp_path):
     sheet = load_sheet(folder / "r2.yaml")
     first = sheetsurface.measured(sheet, cache)
     assert len(list(cache.glob("*.json"))) == 1
-    assert sheetsurface.measured(sheet, cache) is first  # in memory
+    assert sheetsurface.measured(sheet, cache).values == first.values
     moved = folder / "r2.yaml"
     moved.write_text(moved.read_text(encoding="utf-8").replace("  ground: 0\n", "  ground: -0.01\n"), encoding="utf-8")
     lowered = sheetsurface.measured(load_sheet(moved), cache)
@@ -170,3 +170,19 @@ def test_a_second_check_reads_the_cache_and_imports_no_mesh_library(tmp_path):
     assert imported() == "TRIMESH"  # measured once
     assert list((tmp_path / sheetsurface.CACHE_FOLDER).glob("*.json"))
     assert imported() == "NONE"  # unchanged surfaces: read from the cache
+
+
+def test_a_cache_that_cannot_be_written_measures_anyway(tmp_path):
+    """A read-only checkout in CI: the folder cannot be made (here a file stands in its place)."""
+    blocked = tmp_path / "cache"
+    blocked.write_text("not a folder", encoding="utf-8")
+    sheetsurface._MEMORY.clear()
+    found = sheetsurface.measured(load_sheet(VEHICLES / "tessel" / "r2.yaml"), blocked)
+    assert found.values.problem is None and "windshield.angle" in found.values.values
+
+
+def test_the_cache_key_covers_every_module_of_the_geometry_package():
+    from aeroreview.memo import _sources
+
+    names = {path.name for path in _sources("aeroreview.calc.geometry")}
+    assert {"profile.py", "projection.py", "sections.py", "mesh.py"} <= names

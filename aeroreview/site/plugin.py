@@ -8,6 +8,8 @@ review settings (:mod:`aeroreview.settings`), read from the same section of mkdo
 - ``on_files``: add the generated files and the attachments to copy (nothing is written into
   ``site_src/``).
 - ``on_page_markdown``: put the fleet table into the home page.
+- ``on_page_context``: hand the search plugin only the page's headings and words
+  (:mod:`aeroreview.site.searchtext`), and give the page its full content back to render.
 - ``on_serve``: watch the sheets, so ``mkdocs serve`` rebuilds when a sheet changes.
 - ``on_post_build`` / ``on_build_error``: swap the finished site into place, or drop the
   half-built one, so a failed build leaves the previous site untouched
@@ -23,7 +25,7 @@ from pathlib import Path
 from mkdocs.config import base
 from mkdocs.config import config_options as c
 from mkdocs.exceptions import PluginError
-from mkdocs.plugins import BasePlugin
+from mkdocs.plugins import BasePlugin, CombinedEvent, event_priority
 from mkdocs.structure.files import File, InclusionLevel
 
 from aeroreview.problems import InputError
@@ -33,6 +35,7 @@ from aeroreview.sheet import attachment_problems, load_fleet
 from aeroreview.site.figures import FigureCache
 from aeroreview.site.output import Output, OutputProblem, check_output, mark
 from aeroreview.site.pages import generate
+from aeroreview.site.searchtext import searchable
 
 FLEET_MARKER = "<!-- aeroreview:fleet-table -->"
 CACHE_FOLDER = ".cache/aeroreview-figures"  # beside mkdocs.yml; never inside site_src
@@ -48,7 +51,8 @@ class AeroreviewConfig(base.Config):
     fail_on = c.Type(str, default="failure")
     rules = c.Type(dict, default={})
     max_attachment_mb = c.Optional(c.Type((int, float)))
-    calibrations = c.Type(list, default=[])
+    estimates = c.Optional(c.Type(dict))  # floors and region budgets of the combination model
+    calibrations = c.Type(list, default=[])  # files, or {file, vehicles, classes}
 
 
 def fleet_epoch(reviews) -> int:
@@ -66,6 +70,7 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         self.output: Output | None = None
         self.settings = None
         self.cache: FigureCache | None = None
+        self.rendered = ""  # a page's full content while the search reads its words
         self.progress = lambda stage, total=None: None  # ``aeroreview site build`` shows it on a terminal
 
     def on_startup(self, *, command, dirty):
@@ -116,6 +121,18 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         if page.file.src_uri == "index.md":
             return markdown.replace(FLEET_MARKER, self.site.home_table)
         return markdown
+
+    @event_priority(100)  # before the search plugin (priority 0) indexes the page
+    def _search_sees_words(self, context, *, page, config, nav):
+        self.rendered, page.content = page.content, searchable(page.content)
+        return context
+
+    @event_priority(-100)  # after it: the page renders with everything
+    def _page_renders_in_full(self, context, *, page, config, nav):
+        page.content = self.rendered
+        return context
+
+    on_page_context = CombinedEvent(_search_sees_words, _page_renders_in_full)
 
     def on_serve(self, server, *, config, builder):
         server.watch(str(self.settings.sheets_path))

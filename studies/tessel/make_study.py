@@ -14,7 +14,7 @@ Run it from the repository root, then refit the calibration (it refuses to overw
     SOURCE_DATE_EPOCH=1796083200 aeroreview calibrate studies/tessel/rear-doe.csv \\
         --map backlight_deg=rear.backlight_angle --map diffuser_deg=underbody.diffuser_angle \\
         --map side_taper_deg=rear.side_taper_angle --map rim_open_pct=wheels.rim_openness:% \\
-        --output studies/tessel/rear-doe.calibration.yaml
+        --vehicle tessel --output studies/tessel/rear-doe.calibration.yaml
 """
 
 from pathlib import Path

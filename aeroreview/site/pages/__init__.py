@@ -58,7 +58,7 @@ def generate(reviews: list[Review], settings: Settings, cache: FigureCache) -> S
                            track_record.predicted_change(before, review, before.frame),
                            pair_of.get((vehicle_id, before.sheet.revision, review.sheet.revision)))
     rules.write(out, grouped)
-    calibrations.write(out)
+    calibrations.write(out, reviews)
     features.write(out)
     out.draw_figures()
     return out.site

@@ -2,30 +2,46 @@
 
 from __future__ import annotations
 
-from aeroreview.calibration import STUDY_SUFFIXES, Calibration, page_data
+from aeroreview.calibration import STUDY_SUFFIXES, Calibration, page_data, reach
 from aeroreview.memo import key
 from aeroreview.paths import PathProblem, contained_file
+from aeroreview.review import Review
 from aeroreview.rules import all_rules
-from aeroreview.site.pages.common import CAUTION, Output, esc, link
+from aeroreview.site.pages.common import CAUTION, Output, esc, link, revision_path
 
 
 def page_path(cal: Calibration) -> str:
     return f"calibrations/{cal.slug}.md"
 
 
-def write(out: Output) -> None:
+def write(out: Output, reviews: list[Review]) -> None:
     calibrations = out.settings.calibrations
     index = ["# Calibrations", "", "Sensitivities the team fitted on its own parametric studies "
              "(`aeroreview calibrate`). A calibrated rule re-costs its fix with the team's slope inside the "
-             "study's range; its findings then name the source kind *team data*.", ""]
+             "study's range, for the vehicles it declares; their findings then name the source kind *team data*.", ""]
     if not calibrations:
         index.append("No calibrations are named in the settings (`calibrations:` in the aeroreview section of "
                      "`mkdocs.yml`).")
     for cal in calibrations:
-        index.append(f"- [{esc(cal.file)}]({cal.slug}.md): {cal.rows} rows, cross-validated R^2 {cal.cv_r2:.2f}, "
-                     f"{len(cal.slopes)} parameter(s), fitted {esc(cal.date)}")
-        out.page(page_path(cal), calibration_page(out, cal))
+        index.append(f"- [{esc(cal.file)}]({cal.slug}.md): {cal.rows} rows, cross-validated R^2 {cal.cv_r2:.2f} and "
+                     f"RMSE {cal.cv_rmse:.1f} counts, {len(cal.slopes)} parameter(s), for {esc(cal.scope)}, fitted "
+                     f"{esc(cal.date)}")
+        out.page(page_path(cal), calibration_page(out, cal, reviews))
     out.page("calibrations/index.md", "\n".join(index) + "\n")
+
+
+def reach_section(cal: Calibration, reviews: list[Review]) -> list[str]:
+    """The revisions whose findings the calibration re-costs, and declared vehicles without a sheet."""
+    recosted, unknown = reach(cal, reviews)
+    lines = ["## Findings it re-costs", ""]
+    lines += [f"- {link(revision_path(review), esc(review.sheet.label), 1)}: "
+              + ", ".join(link(f"rules/{rule}.md", rule, 1) for rule in rules) for review, rules in recosted]
+    if not recosted:
+        lines.append("None in this knowledge base.")
+    if unknown:
+        lines += ["", f"!!! warning \"Vehicles without a sheet\"\n    No sheet has the id "
+                  f"{', '.join(f'`{esc(v)}`' for v in unknown)} that this calibration names: check the id."]
+    return lines + [""]
 
 
 FITTING = ("aeroreview.calibration", "aeroreview.calibrate", "aeroreview.study")  # the code page_data runs
@@ -43,7 +59,7 @@ def remembered_page_data(out: Output, cal: Calibration) -> dict:
     return out.memo.get(name, lambda: page_data(cal, root))
 
 
-def calibration_page(out: Output, cal: Calibration) -> str:
+def calibration_page(out: Output, cal: Calibration, reviews: list[Review]) -> str:
     data = remembered_page_data(out, cal)
     used = {rule.sensitivity.feature: rule.id for rule in all_rules().values() if rule.sensitivity}
     lines = [f"# Calibration {esc(cal.file)}", ""]
@@ -53,7 +69,9 @@ def calibration_page(out: Output, cal: Calibration) -> str:
               f"| sha256 | {esc(cal.study_sha256)} |", f"| rows used | {cal.rows} ({cal.dropped_rows} dropped for "
               "missing values) |", f"| response | {esc(cal.response)} (in drag counts) |",
               "| model | linear least squares (statsmodels OLS), 95 % intervals |",
-              f"| fitted | {esc(cal.date)} |", ""]
+              f"| fitted | {esc(cal.date)} |", f"| applies to | {esc(cal.scope)} (other vehicles keep the library "
+              "estimates) |", ""]
+    lines += reach_section(cal, reviews)
     lines += [f"## How much of the study the surfaces explain ({cal.folds}-fold cross-validated)", "",
               "| Surface | R^2 | RMSE [counts] |", "|---|---|---|"]
     lines += [f"| {name} | {m['cv_r2']:.3f} | {m['cv_rmse_counts']:.2f} |" for name, m in cal.models.items()]

@@ -58,12 +58,12 @@ def buildup(out: Output, change: BuildupChange, before: str, after: str) -> list
 def _numbers(before: Review, after: Review) -> list[tuple[str, str, str, str]]:
     """Rows of the results table: label, before, after, change (blank when not comparable)."""
     old, new = before.key_numbers, after.key_numbers
-    rows = [("Cd", old["cd"], new["cd"], ".3f"), ("CdA [m²]", old["cda"], new["cda"], ".3f"),
-            (f"Energy on {new['cycle']} [kWh/100 km]", old["energy_kWh_per_100km"], new["energy_kWh_per_100km"], ".2f"),
-            ("Range on the cycle [km]", old.get("range_km"), new.get("range_km"), ",.0f")]
+    rows = [("Cd", old.cd, new.cd, ".3f"), ("CdA [m²]", old.cda, new.cda, ".3f"),
+            (f"Energy on {new.cycle} [kWh/100 km]", old.energy_kWh_per_100km, new.energy_kWh_per_100km, ".2f"),
+            ("Range on the cycle [km]", old.range_km, new.range_km, ",.0f")]
     for axle in ("front", "rear"):
-        lifts = [(n.get("lift_reference") or {}).get(f"{axle}_kg") for n in (old, new)]
-        rows.append((f"Lift on the {axle} axle at {new['reference_speed_km_h']:.0f} km/h [kg]", *lifts, "+.0f"))
+        lifts = [n.lift_reference.kg(axle) if n.lift_reference else None for n in (old, new)]
+        rows.append((f"Lift on the {axle} axle at {new.reference_speed_km_h:.0f} km/h [kg]", *lifts, "+.0f"))
     out = []
     for label, was, now, spec in rows:
         shown = [format(v, spec) if v is not None else "not given" for v in (was, now)]

@@ -13,12 +13,12 @@ def fleet_table(by_vehicle: dict[str, list[Review]], depth: int) -> str:
         latest = reviews[-1]
         numbers = latest.key_numbers
         tally = latest.counts_by_status()
-        kind = "estimated" if numbers["cd_estimated"] else "measured"
+        kind = "estimated" if numbers.cd_estimated else "measured"
         rows.append(
             f"| {link(f'fleet/{vehicle_id}/index.md', esc(latest.sheet.name), depth)} "
             f"| {latest.sheet.get('vehicle.class')} "
             f"| {link(revision_path(latest), esc(latest.sheet.revision), depth)} "
-            f"| {numbers['cd']:.3f} ({kind}) | {numbers['cda']:.3f} | {score_text(latest)} "
+            f"| {numbers.cd:.3f} ({kind}) | {numbers.cda:.3f} | {score_text(latest)} "
             f"| {tally['failure']} / {tally['warning']} "
             f"| {recoverable_text(latest)} "
             f"| {latest.sheet.reviewed.isoformat() if latest.sheet.reviewed else 'not given'} |")

@@ -9,7 +9,7 @@ from aeroreview import catalogue
 from aeroreview.digest import RevisionFigures
 from aeroreview.paths import contained_file
 from aeroreview.review import ADDITIVITY_NOTE, Finding, Review, failing
-from aeroreview.rules import NOT_ASSESSED, ZONES
+from aeroreview.rules import ZONES
 from aeroreview.settings import status_rank
 from aeroreview.sheet import IMAGE_SUFFIXES
 from aeroreview.site.pages import revision_figures
@@ -48,28 +48,27 @@ def write(out: Output, review: Review, figures: RevisionFigures) -> None:
 
 def key_numbers(review: Review) -> list[str]:
     n = review.key_numbers
-    ref = n["reference_speed_km_h"]
-    rows = [("Drag coefficient Cd", f"{n['cd']:.3f} ({'estimated' if n['cd_estimated'] else 'measured'}: "
-                                    f"{esc(n['cd_source'])})"),
-            ("Frontal area A", f"{n['area']:.2f} m²"), ("Drag area CdA", f"{n['cda']:.3f} m²"),
-            (f"Drag at {ref:.0f} km/h", f"{n['drag_N']:.0f} N"),
-            (f"Drag power at {ref:.0f} km/h", f"{n['drag_power_kW']:.1f} kW")]
-    for key, label in (("lift_reference", f"{ref:.0f} km/h"), ("lift_top_speed", "top speed")):
-        lift = n.get(key)
+    ref = n.reference_speed_km_h
+    rows = [("Drag coefficient Cd", f"{n.cd:.3f} ({'estimated' if n.cd_estimated else 'measured'}: "
+                                    f"{esc(n.cd_source)})"),
+            ("Frontal area A", f"{n.area:.2f} m²"), ("Drag area CdA", f"{n.cda:.3f} m²"),
+            (f"Drag at {ref:.0f} km/h", f"{n.drag_N:.0f} N"),
+            (f"Drag power at {ref:.0f} km/h", f"{n.drag_power_kW:.1f} kW")]
+    for lift, label in ((n.lift_reference, f"{ref:.0f} km/h"), (n.lift_top_speed, "top speed")):
         if lift:
-            rows.append((f"Lift per axle at {label} ({lift['speed_km_h']:.0f} km/h)",
-                         f"front {lift['front_kg']:+.0f} kg ({lift['front_share'] * 100:+.1f} % of its static load), "
-                         f"rear {lift['rear_kg']:+.0f} kg ({lift['rear_share'] * 100:+.1f} %)"))
-    if not n.get("lift_reference"):
+            rows.append((f"Lift per axle at {label} ({lift.speed_km_h:.0f} km/h)",
+                         f"front {lift.front_kg:+.0f} kg ({lift.front_share * 100:+.1f} % of its static load), "
+                         f"rear {lift.rear_kg:+.0f} kg ({lift.rear_share * 100:+.1f} %)"))
+    if not n.lift_reference:
         rows.append(("Lift per axle", "not available: no result with cl_front and cl_rear"))
-    rows += [(f"Energy on {n['cycle']}", f"{n['energy_kWh_per_100km']:.2f} kWh per 100 km "
-                                         f"({'fuel' if n['litres_per_100km'] else 'battery'}); "
-                                         f"aerodynamic share {n['aero_share'] * 100:.0f} %")]
-    if n["litres_per_100km"]:
-        rows.append(("Fuel on the cycle", f"{n['litres_per_100km']:.2f} L per 100 km"))
-    if n["range_km"]:
-        rows.append(("Range on the cycle", f"{n['range_km']:.0f} km"))
-    for cycle, effect in n["per_10_counts"].items():
+    rows += [(f"Energy on {n.cycle}", f"{n.energy_kWh_per_100km:.2f} kWh per 100 km "
+                                         f"({'fuel' if n.litres_per_100km else 'battery'}); "
+                                         f"aerodynamic share {n.aero_share * 100:.0f} %")]
+    if n.litres_per_100km:
+        rows.append(("Fuel on the cycle", f"{n.litres_per_100km:.2f} L per 100 km"))
+    if n.range_km:
+        rows.append(("Range on the cycle", f"{n.range_km:.0f} km"))
+    for cycle, effect in n.per_10_counts.items():
         parts = [f"{effect['kwh_per_100km']:+.3f} kWh/100 km"]
         if effect.get("litres_per_100km") is not None:
             parts.append(f"{effect['litres_per_100km']:+.3f} L/100 km")
@@ -133,7 +132,7 @@ def findings(review: Review) -> list[str]:
             out.append(f"| {badge(f.status)}{' (waived)' if f.waived else ''} "
                        f"| {link(f'rules/{f.rule.id}.md', f.rule.id, 2)} | {esc(f.verdict.message)} "
                        f"| {measured(f)} | {estimate(f)} | {consequence(f)} |")
-        details = [f for f in items if f.status not in ("pass", NOT_ASSESSED)]
+        details = [f for f in items if f.actionable]
         if details:
             out += ["", "Fixes, sources and waivers:", ""]
             out += [f"- **{f.rule.id}**: {esc(f.fix)} *Sources:* {sources(f)}.{waiver(f)}" for f in details]
@@ -142,15 +141,18 @@ def findings(review: Review) -> list[str]:
 
 
 def sources(f: Finding) -> str:
-    return "; ".join(f"{esc(s.citation)}{kind_suffix(s)}" for s in f.sources)
+    """The sources, and why a team calibration of the rule's feature was not applied to this finding."""
+    unused = f" (calibration not applied: {esc(f.calibration['note'])})" \
+        if f.calibration and not f.calibration["applied"] else ""
+    return "; ".join(f"{esc(s.citation)}{kind_suffix(s)}" for s in f.sources) + unused
 
 
 def waiver(f: Finding) -> str:
     if not f.waiver:
         return ""
-    return (f" **Waiver ({f.waiver['status']})**: {esc(f.waiver['reason'])}"
-            f"{', by ' + esc(f.waiver['by']) if f.waiver['by'] else ''}"
-            f"{', expires ' + f.waiver['expires'] if f.waiver['expires'] else ''}.")
+    return (f" **Waiver ({f.waiver.status})**: {esc(f.waiver.reason)}"
+            f"{', by ' + esc(f.waiver.by) if f.waiver.by else ''}"
+            f"{', expires ' + f.waiver.expires if f.waiver.expires else ''}.")
 
 
 def ranked_fixes(review: Review) -> list[str]:
@@ -194,7 +196,7 @@ def estimate(f: Finding) -> str:
     parts = []
     if f.counts and f.counts[1]:
         parts.append(f"{f.counts[0]:g}-{f.counts[1]:g} counts")
-    if f.status not in ("pass", NOT_ASSESSED):
+    if f.actionable:
         for axle, change in (("front", f.verdict.cl_front), ("rear", f.verdict.cl_rear)):
             if change:
                 parts.append(f"cl {axle} {change:+.2f}")
@@ -205,10 +207,10 @@ def consequence(f: Finding) -> str:
     c = f.consequences
     if not c:
         return ""
-    parts = [f"{c['power_W_at_reference_speed'][0]:.0f}-{c['power_W_at_reference_speed'][1]:.0f} W",
-             f"{c['energy_kWh_per_100km'][0]:.2f}-{c['energy_kWh_per_100km'][1]:.2f} kWh/100 km"]
-    if "litres_per_100km" in c:
-        parts.append(f"{c['litres_per_100km'][0]:.2f}-{c['litres_per_100km'][1]:.2f} L/100 km")
-    if "range_km" in c:
-        parts.append(f"{c['range_km'][0]:.1f}-{c['range_km'][1]:.1f} km range")
+    parts = [f"{c.power_W_at_reference_speed[0]:.0f}-{c.power_W_at_reference_speed[1]:.0f} W",
+             f"{c.energy_kWh_per_100km[0]:.2f}-{c.energy_kWh_per_100km[1]:.2f} kWh/100 km"]
+    if c.litres_per_100km:
+        parts.append(f"{c.litres_per_100km[0]:.2f}-{c.litres_per_100km[1]:.2f} L/100 km")
+    if c.range_km:
+        parts.append(f"{c.range_km[0]:.1f}-{c.range_km[1]:.1f} km range")
     return ", ".join(parts)

@@ -37,20 +37,20 @@ def section(out: Output, review: Review, figures: RevisionFigures) -> list[str]:
     drag = figures.drag
     lines += [out.figure("drag-power", {"speed_km_h": drag.speed_km_h, "drag_N": [round(d, 2) for d in drag.drag_N],
                                         "power_kW": [round(p, 3) for p in drag.power_kW],
-                                        "reference_km_h": n["reference_speed_km_h"], "cd": n["cd"], "area": n["area"]},
-                         f"Drag force and power against speed; at {n['reference_speed_km_h']:.0f} km/h "
-                         f"{n['drag_N']:.0f} N and {n['drag_power_kW']:.1f} kW", 2), ""]
+                                        "reference_km_h": n.reference_speed_km_h, "cd": n.cd, "area": n.area},
+                         f"Drag force and power against speed; at {n.reference_speed_km_h:.0f} km/h "
+                         f"{n.drag_N:.0f} N and {n.drag_power_kW:.1f} kW", 2), ""]
     lift = figures.lift
     if lift:
         data = {"speed_km_h": lift.speed_km_h, "front_kg": [round(f, 2) for f in lift.front_kg],
                 "rear_kg": [round(r, 2) for r in lift.rear_kg], "rear_static_kg": round(lift.rear_static_kg, 1),
-                "reference_km_h": n["reference_speed_km_h"], "top_km_h": lift.top_km_h,
+                "reference_km_h": n.reference_speed_km_h, "top_km_h": lift.top_km_h,
                 "cl_front": lift.cl_front, "cl_rear": lift.cl_rear}
         lines += [out.figure("lift", data, f"Lift per axle against speed: at {lift.top_km_h:.0f} km/h front "
                              f"{data['front_kg'][-1]:+.0f} kg, rear {data['rear_kg'][-1]:+.0f} kg", 2), ""]
-    breakdown = {k: round(v, 4) for k, v in n["energy_breakdown_kWh"].items()}
-    lines += [out.figure("energy", {**breakdown, "cycle": n["cycle"], "aero_share": round(n["aero_share"], 4)},
-                         f"Energy breakdown on {n['cycle']}: rolling {breakdown['rolling']:.2f} kWh, aerodynamic "
+    breakdown = {k: round(v, 4) for k, v in n.energy_breakdown_kWh.items()}
+    lines += [out.figure("energy", {**breakdown, "cycle": n.cycle, "aero_share": round(n.aero_share, 4)},
+                         f"Energy breakdown on {n.cycle}: rolling {breakdown['rolling']:.2f} kWh, aerodynamic "
                          f"{breakdown['aero']:.2f} kWh, braking {breakdown['braking']:.2f} kWh", 2), ""]
     if figures.ahmed:
         lines += [out.figure("ahmed", ahmed_data(figures.ahmed), f"The backlight angle {figures.ahmed.angle:.1f} deg "

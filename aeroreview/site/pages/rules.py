@@ -30,13 +30,13 @@ def sensitivity_section(out: Output, rule: Rule) -> list[str]:
     lines = ["## Sensitivity", "", f"{sens.counts_per_unit:+g} drag counts per {sens.unit} of `{sens.feature}` "
              f"between {sens.valid[0]:g} and {sens.valid[1]:g} {sens.unit} ({sens.source.citation}; "
              f"*{sens.source.kind}*). The fix takes the feature to the `{sens.fix_to}` threshold.", ""]
-    calibrated = out.settings.calibrated.get(sens.feature)
-    if calibrated:
-        cal, slope = calibrated
-        lines += [f"**Team data**: {link(f'calibrations/{cal.slug}.md', esc(cal.label), 1)}: "
+    for cal, slope in out.settings.calibrated.get(sens.feature, []):
+        lines += [f"**Team data** for {esc(cal.scope)}: {link(f'calibrations/{cal.slug}.md', esc(cal.label), 1)}: "
                   f"{slope.counts_per_unit:+.3g} counts per {esc(slope.unit)} (95 % {slope.ci95[0]:+.3g} to "
                   f"{slope.ci95[1]:+.3g}) over {slope.study_range[0]:g}-{slope.study_range[1]:g} {esc(slope.unit)}, "
-                  f"**{slope.agreement}**; the rule's estimates use it inside that range.", ""]
+                  f"**{slope.agreement}**. The estimates of those vehicles use it for the part of the fix inside that "
+                  "range, and the library estimate pro rata for the part beyond it; other vehicles keep the "
+                  "library estimate.", ""]
     return lines
 
 

@@ -19,11 +19,11 @@ def write(out: Output, vehicle_id: str, reviews: list[Review]) -> None:
         tally = review.counts_by_status()
         changes = link(f"{sheet.parent}-to-{sheet.revision}.md", "what changed", 0) if sheet.parent in revisions else ""
         lines.append(f"| {link(f'{sheet.revision}.md', esc(sheet.revision), 0)} | {esc(sheet.parent or '')} "
-                     f"| {sheet.reviewed or ''} | {review.key_numbers['cd']:.3f} | {score_text(review)} "
+                     f"| {sheet.reviewed or ''} | {review.key_numbers.cd:.3f} | {score_text(review)} "
                      f"| {tally['failure']} / {tally['warning']} "
                      f"| {recoverable_text(review)} | {changes} |")
     data = {"name": latest.sheet.name, "revisions": [r.sheet.revision for r in reviews],
-            "cd": [round(r.key_numbers["cd"], 4) for r in reviews],
+            "cd": [round(r.key_numbers.cd, 4) for r in reviews],
             "score": [None if r.score is None else round(r.score, 1) for r in reviews],
             "recoverable": [round(r.estimate.mid, 1) for r in reviews]}
     alt = (f"Revision trends of {latest.sheet.name}: Cd " + ", ".join(f"{c:.3f}" for c in data["cd"])
