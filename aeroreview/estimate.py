@@ -109,8 +109,13 @@ def combine(effects, budget: float) -> float:
         return 0.0
     left = 1.0
     for effect in effects:
-        left *= 1.0 - min(max(effect, 0.0), budget) / budget
+        left = _left(left, effect, budget)
     return budget * (1.0 - left)
+
+
+def _left(left: float, effect: float, budget: float) -> float:
+    """The share of a positive ``budget`` still left after one more fix of ``effect`` counts."""
+    return left * (1.0 - min(max(effect, 0.0), budget) / budget)
 
 
 @dataclass(frozen=True)
@@ -253,10 +258,20 @@ class Estimate:
 
 
 def waterfall(ranked, frame: Frame) -> tuple[tuple[str, float], ...]:
-    """Each claim's marginal mid saving given the claims ranked before it."""
-    steps, before = [], 0.0
-    for index, claim in enumerate(ranked):
-        after = combined(ranked[:index + 1], frame)
+    """Each claim's marginal mid saving given the claims ranked before it.
+
+    Each region keeps the share of its budget left so far, so a step multiplies in one factor
+    instead of recombining every claim before it: the same products, in the same order, as
+    :func:`combined` on the first claims (linear in the claims, not quadratic).
+    """
+    steps, before, left = [], 0.0, {}
+    for claim in ranked:
+        region = claim.region
+        if region is not None:
+            budget = frame.budgets.get(region, 0.0)
+            share = left.get(region, 1.0)
+            left[region] = _left(share, claim.mid, budget) if budget > 0 else share
+        after = combine((frame.budgets.get(r, 0.0) * (1.0 - share) for r, share in left.items()), frame.gap)
         steps.append((claim.rule, after - before))
         before = after
     return tuple(steps)

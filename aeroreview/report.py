@@ -1,6 +1,8 @@
 """Reports of a fleet review: readable text, JSON, and JUnit XML for CI systems.
 
-All three are built from the same :func:`as_json` data, so they never disagree.
+All three are built from the same :func:`as_json` data, so they never disagree. Numbers the
+engine computed enter that data through :func:`rounded`, where they enter: the rest of it (text,
+ids, counts, values already rounded) is never walked twice.
 """
 
 from __future__ import annotations
@@ -29,10 +31,10 @@ def finding_json(finding: Finding) -> dict:
     return {
         "rule": rule.id, "zone": rule.zone, "title": rule.title, "status": finding.status,
         "severity": finding.severity, "message": verdict.message, "measured": verdict.measured,
-        "limit": verdict.limit, "margin": verdict.margin, "estimate": estimate,
-        "consequences": finding.consequences and finding.consequences.as_dict(), "missing": list(verdict.missing),
-        "waiver": finding.waiver and finding.waiver.as_dict(),
-        "calibration": finding.calibration,
+        "limit": verdict.limit, "margin": verdict.margin, "estimate": rounded(estimate),
+        "consequences": rounded(finding.consequences and finding.consequences.as_dict()),
+        "missing": list(verdict.missing), "waiver": finding.waiver and finding.waiver.as_dict(),
+        "calibration": rounded(finding.calibration),
         # Sources beyond the rule's own (listed once under "rules"): the team's data when a calibration re-costed it.
         "added_sources": [s.as_dict() for s in finding.sources if s not in rule.sources],
     }
@@ -50,14 +52,17 @@ def rules_json(reviews: list[Review]) -> dict:
     return rules
 
 
+_KEPT = frozenset((str, int, bool, type(None)))  # leaves rounded() returns unchanged: skipped without a call
+
+
 def rounded(value):
     """Floats cut to 10 significant digits, so a converted 130 km/h reads 130.0, not 130.00000000000003."""
     if isinstance(value, float):
         return float(f"{value:.10g}")
     if isinstance(value, dict):
-        return {key: rounded(item) for key, item in value.items()}
+        return {key: item if type(item) in _KEPT else rounded(item) for key, item in value.items()}
     if isinstance(value, (list, tuple)):
-        return [rounded(item) for item in value]
+        return [item if type(item) in _KEPT else rounded(item) for item in value]
     return value
 
 
@@ -82,7 +87,7 @@ def review_json(review: Review, fail_on: str) -> dict:
         "confidence": None if review.confidence is None else round(review.confidence, 3),
         **estimate_json(review),
         "ranked_fixes": [f.rule.id for f in review.ranked_fixes],
-        "key_numbers": review.key_numbers.as_dict(), "assumptions": review.assumptions,
+        "key_numbers": rounded(review.key_numbers.as_dict()), "assumptions": review.assumptions,
         "failing": [f.rule.id for f in gate],
         "findings": [{**finding_json(f), "line": finding_line(sheet, f)} for f in review.findings],
         "notices": [n.as_dict() for n in review.notices],
@@ -112,6 +117,7 @@ def pairs_json(reviews: list[Review]) -> dict:
 
 
 def as_json(reviews: list[Review], problems: list[Problem], fail_on: str) -> dict:
+    """The data every report is built from: plain values, engine numbers rounded (:func:`rounded`)."""
     return {"sheets": [review_json(r, fail_on) for r in reviews], "rules": rules_json(reviews), **pairs_json(reviews),
             "errors": [p.as_dict() for p in problems if p.level == "error"],
             "warnings": [p.as_dict() for p in problems if p.level != "error"]}
@@ -134,12 +140,15 @@ def as_text(data: dict, color: bool) -> str:
 
     lines = []
     for sheet in data["sheets"]:
+        by_zone: dict[str, list[dict]] = {}
+        for finding in sheet["findings"]:
+            by_zone.setdefault(finding["zone"], []).append(finding)
         score = "-" if sheet["score"] is None else f"{sheet['score']:.0f}"
         lines.append(f"{paint(escape(sheet['vehicle']) + '@' + escape(sheet['revision']), 'bold')} {escape(sheet['file'])}  "
                      f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %, confidence {_share(sheet['confidence'])})")
         lines.append(f"  {_estimate_line(sheet)}")
         for zone, title in ZONES.items():
-            items = [f for f in sheet["findings"] if f["zone"] == zone]
+            items = by_zone.get(zone)
             if not items:
                 continue
             zone_score = sheet["zones"][zone]

@@ -225,8 +225,11 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     ranked = _ranked(findings.values())
     frame = frame_for(sheet, numbers.cd, settings.estimates, lift and (lift.cl_front, lift.cl_rear),
                       {f.rule.id for f in ranked})
-    claims = [c for c in map(claim_of, ranked + [f for f in findings.values() if f not in ranked]) if c]
-    zones = {zone: _zone_score(zone, findings.values(), claims, frame) for zone in ZONES}
+    claims = [c for c in map(claim_of, ranked + [f for f in findings.values() if not f.counts]) if c]
+    by_zone: dict[str, list[Finding]] = {zone: [] for zone in ZONES}
+    for finding in findings.values():
+        by_zone[finding.rule.zone].append(finding)
+    zones = {zone: _zone_score(zone, mine, claims, frame) for zone, mine in by_zone.items()}
     scored = [f for f in findings.values() if f.rule.zone not in UNSCORED_ZONES]
     overall = score(claims, frame, {f.rule.region for f in scored if f.rule.region}) \
         if any(f.status != NOT_ASSESSED for f in scored) else None
@@ -242,9 +245,9 @@ def _ranked(findings) -> list[Finding]:
     return sorted((f for f in findings if f.counts), key=lambda f: (-f.benefit, f.rule.id))
 
 
-def _zone_score(zone: str, findings: list[Finding], claims, frame: Frame) -> ZoneScore:
-    """A zone's score on the same basis as the revision's: its own claims against its regions' reach."""
-    mine = [f for f in findings if f.rule.zone == zone]
+def _zone_score(zone: str, mine: list[Finding], claims, frame: Frame) -> ZoneScore:
+    """A zone's score on the same basis as the revision's: its own claims (of ``mine``, its findings)
+    against its regions' reach."""
     assessed = sum(f.status != NOT_ASSESSED for f in mine)
     ids = {f.rule.id for f in mine}
     value = None

@@ -157,14 +157,15 @@ class Fleet:
 
     sheets: list[Sheet]
     problems: list[Problem]
+    files: frozenset[Path] = frozenset()  # the real path of every sheet file read (links followed)
 
     @property
     def warnings(self) -> list[Problem]:
         return [w for s in self.sheets for w in s.warnings]
 
 
-def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
-    """YAML files named by ``paths`` (files, or folders searched recursively), sorted."""
+def sheet_files(paths) -> tuple[dict[Path, Path], list[Problem]]:
+    """YAML files named by ``paths`` (files, or folders searched recursively), sorted, by real path."""
     files, problems = [], []
     for given in paths:
         path = Path(given)
@@ -177,7 +178,7 @@ def sheet_files(paths) -> tuple[list[Path], list[Problem]]:
     unique = {}  # a sheet named twice (a folder and a file in it) is read once
     for file in files:
         unique.setdefault(file.resolve(), file)
-    return list(unique.values()), problems
+    return unique, problems
 
 
 def _sibling_revisions(folders, loaded: set[Path]) -> dict[tuple[str, str], None]:
@@ -218,7 +219,7 @@ def load_fleet(paths) -> Fleet:
     files, problems = sheet_files(paths)
     sheets: list[Sheet] = []
     checked: list[Sheet] = []  # every sheet that parsed, usable or not, for the fleet checks
-    for file in files:
+    for file in files.values():
         try:
             sheet, errors = check_document(yamldoc.load(file, str(file)), file.parent)
         except InputError as error:
@@ -239,8 +240,7 @@ def load_fleet(paths) -> Fleet:
             seen[key] = sheet
     orphans = [s for s in checked if s.parent and (s.vehicle_id, s.parent) not in seen]
     if orphans:
-        loaded = {p.resolve() for p in files}
-        seen.update(_sibling_revisions((Path(s.path).parent for s in orphans), loaded))
+        seen.update(_sibling_revisions((Path(s.path).parent for s in orphans), set(files)))
     revisions: dict[str, list[str]] = {}
     for vehicle, revision in seen:
         revisions.setdefault(vehicle, []).append(revision)
@@ -253,4 +253,4 @@ def load_fleet(paths) -> Fleet:
             hints[key] = _parent_hint(sheet, sorted(revisions.get(sheet.vehicle_id, ())))
         problems.append(Problem(sheet.path, sheet.line_of.get("parent", 1), 1,
                                 f"parent revision '{sheet.parent}' of {sheet.vehicle_id} does not exist", hints[key]))
-    return Fleet(sheets, problems)
+    return Fleet(sheets, problems, frozenset(files))

@@ -9,11 +9,12 @@ from pathlib import Path
 DEMO = Path(__file__).resolve().parents[1] / "vehicles"
 NUMBER = re.compile(r"(?<=: )(\d+\.?\d*)(?= (mm|deg|m|kg|m\^2|kWh|km/h|%|in|L)\b)")
 FILES = re.compile(r"^(attachments|geometry):.*?(?=^\S|\Z)", re.M | re.S)  # sections naming files beside a sheet
+RESULT_FILES = re.compile(r"^( +)files:\n(?:\1 +- .*\n)+", re.M)  # the files a result was read from
 
 
 def templates() -> list[str]:
-    """The demo sheets without the sections that name files (images, surfaces)."""
-    return [FILES.sub("", p.read_text(encoding="utf-8")) for p in sorted(DEMO.rglob("*.yaml"))]
+    """The demo sheets without what names files beside them (images, surfaces, result files)."""
+    return [RESULT_FILES.sub("", FILES.sub("", p.read_text(encoding="utf-8"))) for p in sorted(DEMO.rglob("*.yaml"))]
 
 
 def vary(text: str, rng: random.Random, spread: float) -> str:

@@ -214,7 +214,7 @@ class Rule:
 
     def with_thresholds(self, text: str, thresholds: dict[str, float] | None = None) -> str:
         """``text`` with each ``{name}`` of one of this rule's thresholds shown in its unit."""
-        values = {**self.defaults(), **(thresholds or {})}
+        values = {**self._defaults, **(thresholds or {})}
         known = {t.name: t for t in self.thresholds}
 
         def shown(match) -> str:
@@ -229,6 +229,11 @@ class Rule:
         raise KeyError(name)
 
     def defaults(self) -> dict[str, float]:
+        return dict(self._defaults)
+
+    @functools.cached_property
+    def _defaults(self) -> dict[str, float]:
+        """The default thresholds in SI, read once (every finding's fix text shows them)."""
         return {t.name: t.parse(t.default) for t in self.thresholds}
 
     @property
@@ -262,8 +267,12 @@ def parse_examples(text: str) -> list[tuple[str, str]]:
             for label, status, fragment in zip(found[1::3], found[2::3], found[3::3])]
 
 
+@functools.lru_cache(maxsize=None)
 def parse_doc(text: str) -> dict[str, str]:
-    """Split a rule docstring into its sections (``What it checks: ...`` and so on)."""
+    """Split a rule docstring into its sections (``What it checks: ...`` and so on).
+
+    Cached, as every finding's fix text is cut from it: callers only read the result.
+    """
     text = _EXAMPLES.split(inspect.cleandoc(text), 1)[0]
     parts = _SECTION.split(text)
     sections = {}

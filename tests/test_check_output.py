@@ -14,6 +14,7 @@ from aeroreview import report
 from aeroreview.review import review_sheet
 from aeroreview.settings import Settings
 from aeroreview.sheet import load_fleet
+from aeroreview.units import to_si
 from conftest import ROOT, VEHICLES
 
 HEAVY = ("pandas", "matplotlib", "trimesh", "mkdocs")
@@ -75,3 +76,33 @@ def test_colour_only_adds_styles(demo_data):
     plain, coloured = report.as_text(demo_data, color=False), report.as_text(demo_data, color=True)
     assert "\x1b[" not in plain and "\x1b[1;31m" in coloured
     assert re.sub(r"\x1b\[[0-9;]*m", "", coloured) == plain
+
+
+
+def test_report_data_are_plain_values_with_the_engine_numbers_rounded():
+    """Every value is a JSON type (no tuples, dataclasses or numpy scalars) and every float shows at
+    most 10 significant digits: 130 km/h read as 36.111111111111114 m/s and shown again in km/h is
+    130.00000000000003 in IEEE 754 double arithmetic, and must read 130.0."""
+    speed = to_si("130 km/h", "km/h")
+    assert speed * 3.6 != 130.0  # the engine's own figure is not round
+    reviews = [review_sheet(s, Settings(reference_speed=speed)) for s in load_fleet([VEHICLES]).sheets]
+    data = report.as_json(reviews, [], "failure")
+    plain = (str, int, float, bool, type(None))
+    seen = []
+
+    def walk(value, path):
+        if isinstance(value, dict):
+            for key, item in value.items():
+                walk(item, f"{path}.{key}")
+        elif type(value) is list:
+            for item in value:
+                walk(item, f"{path}[]")
+        else:
+            assert type(value) in plain, f"{path} holds a {type(value).__name__}"
+            if type(value) is float:
+                seen.append(path)
+                assert value == float(f"{value:.10g}"), f"{path} = {value!r} is not rounded"
+
+    walk(data, "")
+    assert any(".key_numbers." in path for path in seen) and any(".consequences." in path for path in seen)
+    assert {sheet["key_numbers"]["reference_speed_km_h"] for sheet in data["sheets"]} == {130.0}

@@ -223,6 +223,10 @@ def test_output_never_overwrites_an_input_sheet(cli, tmp_path, write_sheet):
     before = path.read_text(encoding="utf-8")
     run = cli("check", path, "--output", path)
     assert run.code == 2 and path.read_text(encoding="utf-8") == before
+    link = tmp_path / "report.txt"  # not a sheet itself, but a link to one: its real path is the sheet's
+    link.symlink_to(path)
+    run = cli("check", tmp_path, "--output", link)
+    assert run.code == 2 and "one of the input sheets" in run.err and path.read_text(encoding="utf-8") == before
 
 
 def test_rules_listing_and_explain(cli):
