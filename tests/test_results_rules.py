@@ -57,9 +57,9 @@ def test_the_marked_result_is_used_by_the_review_and_the_default_order_otherwise
     from aeroreview.settings import Settings
 
     unmarked = [result(0.25, "estimate"), result(0.24, "tunnel", scale=0.25), result(0.233), result(0.236, "tunnel")]
-    assert review_sheet(with_features(results=unmarked), Settings()).key_numbers["cd"] == 0.236
+    assert review_sheet(with_features(results=unmarked), Settings()).key_numbers.cd == 0.236
     marked = unmarked[:2] + [result(0.233, of_record=True)] + unmarked[3:]
-    assert review_sheet(with_features(results=marked), Settings()).key_numbers["cd"] == 0.233
+    assert review_sheet(with_features(results=marked), Settings()).key_numbers.cd == 0.233
 
 
 @pytest.mark.parametrize("wheels, ground, expected", [
