@@ -183,3 +183,10 @@ def test_bad_columns_option(option, message, tmp_path, cli):
     path = write_history(tmp_path / "h.dat", np.arange(1, 101), {"Cd": np.full(100, 0.3)})
     run = cli("results", "history", path, "--columns", option)
     assert run.code == 2 and message in run.err
+
+
+def test_the_sheet_accepts_exactly_the_coefficients_a_history_can_find():
+    """sections.py sits below results/ and cannot import it, so the two lists are kept equal here."""
+    from aeroreview.results.history import COEFFICIENT_NAMES
+    from aeroreview.sections import HISTORY_COEFFICIENTS
+    assert tuple(COEFFICIENT_NAMES) == HISTORY_COEFFICIENTS
