@@ -2,7 +2,7 @@
 
 One function per rule, in the module of its zone, registered with :func:`rule`. The
 decorator carries the metadata (id ``zone.slug``, title, default severity, the features
-the rule needs, its thresholds with units and sources, the sources of its effect estimate);
+the rule needs, its thresholds with units and sources, its effect ranges as :class:`Effect`);
 the function's docstring is the rule's documentation, with the same four sections on every
 rule: ``What it checks:``, ``Why it matters:``, ``How to fix:``, ``Known limits:``.
 
@@ -65,6 +65,40 @@ class Source:
 
     def as_dict(self) -> dict:
         return {"citation": self.citation, "kind": self.kind}
+
+
+@dataclass(frozen=True)
+class Effect:
+    """The range of what a fix recovers, declared once: its source text and the finding's counts share it.
+
+    Mostly drag counts; some rules quote a share or a coefficient that they turn into counts.
+    ``text`` says what the range covers and where it comes from, with ``{low}`` and ``{high}``
+    where the numbers go ("{low}-{high} counts; from memory"). A range per unit of something
+    ("per degree of useful taper") is scaled with :meth:`counts`. Put the effect in the rule's
+    ``sources`` and cost the finding with ``EFFECT.counts(...)``, never with the numbers again.
+    """
+
+    low: float
+    high: float
+    text: str
+    kind: str
+
+    def __post_init__(self):
+        if "{low}" not in self.text and "{high}" not in self.text:
+            raise ValueError(f"effect text {self.text!r} must show its range with {{low}} and {{high}}")
+        if not 0 <= self.low <= self.high:
+            raise ValueError(f"effect range {self.low}-{self.high} must be 0 <= low <= high")
+
+    @property
+    def source(self) -> Source:
+        return Source("effect: " + self.text.format(low=f"{self.low:g}", high=f"{self.high:g}"), self.kind)
+
+    def counts(self, amount: float = 1.0, high_amount: float | None = None) -> tuple[float, float]:
+        """The range times ``amount``, the units of what it is quoted per (1 for a fixed range).
+
+        ``high_amount`` scales the high end where that quantity is itself uncertain.
+        """
+        return counts_range(self.low * amount, self.high * (amount if high_amount is None else high_amount))
 
 
 COMMON = Source("common practice in production-car aerodynamics", "common practice")
@@ -304,7 +338,8 @@ def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=()
             raise ValueError(f"rule {id} registered twice")
         if sensitivity and (sensitivity.feature not in needs or sensitivity.fix_to not in {t.name for t in thresholds}):
             raise ValueError(f"{id}: a sensitivity needs one of the rule's features and thresholds")
-        REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), tuple(sources), function,
+        cited = tuple(item.source if isinstance(item, Effect) else item for item in sources)
+        REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), cited, function,
                             tuple(applies_to), figure, flow, sensitivity, tuple(optional), applies_if)
         return function
 

@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 from aeroreview.display import DEG, MM, PERCENT, Reading
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Source, Threshold, body_scale, counts_range,
-                              front_face_height, major, minor, passed, rule)
+from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Effect, Source, Threshold, body_scale, front_face_height,
+                              major, minor, passed, rule)
 
 EDGE_SOURCE = Source("Hucho 1998, front-edge rounding on box-like bodies (chapter not checked): drag falls steeply "
                      "with the edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled, "
@@ -15,26 +15,44 @@ FACE_SOURCE = Source("low car noses: the radius is compared with the height of t
 _EDGE_READS = ("dimensions.frontal_area", "dimensions.width", "dimensions.height", "vehicle.class")
 
 
-def _edge_rule(sheet, ctx, key: str, what: str, van_like_counts, car_counts, face=None):
-    """Judge an edge radius against a length: the front face height when given (low noses), else sqrt(A)."""
+def _edge_effect(low: float, high: float, bodies: str) -> Effect:
+    return Effect(low, high, "{low}-{high} counts on " + bodies + " with a separated edge, times the radius shortfall; "
+                  "from memory (Hucho 1998, chapter not checked)", "from memory")
+
+
+def _near_effect(low: float, high: float, bodies: str) -> Effect:
+    return Effect(low, high, "{low}-{high} counts on " + bodies + " with the radius between the attached and the "
+                  "comfortable ratio (a tenth to a fifth of the separated range); from memory", "from memory")
+
+
+def _edge_rule(sheet, ctx, key: str, what: str, van_like: tuple[Effect, Effect], car: tuple[Effect, Effect],
+               face=None):
+    """Judge an edge radius against a length: the front face height when given (low noses), else sqrt(A).
+
+    ``van_like`` and ``car`` are the effects (separated edge, radius near the limit) for each kind of body.
+    """
     scale, against = (face, "front face height h") if face else (body_scale(sheet), "sqrt(A)")
     radius = sheet.get(key)
     ratio = radius / scale
     boxy = sheet.get("vehicle.class") in BOX_CLASSES
-    low, high = van_like_counts if boxy else car_counts
+    separated, near = van_like if boxy else car
     measured = f"r / {against} = {ratio:.3f} ({MM(radius)} on {MM(scale)})"
     if ratio < ctx["attached_ratio"]:
         shortfall = 1 - ratio / ctx["attached_ratio"]
         return major(f"{what} radius is small for the body size: the flow separates at the edge",
                      measured=measured, limit=f">= {ctx['attached_ratio']:.3f}", margin=f"{ratio - ctx['attached_ratio']:+.3f}",
-                     counts=counts_range(low * shortfall, high * shortfall))
+                     counts=separated.counts(shortfall))
     if ratio < ctx["comfortable_ratio"]:
         return minor(f"{what} radius is near the limit where the flow stays attached",
                      measured=measured, limit=f">= {ctx['comfortable_ratio']:.3f}",
-                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=counts_range(0.1 * low, 0.2 * high))
+                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=near.counts())
     return passed(f"{what} radius keeps the flow attached", measured=measured, limit=f">= {ctx['attached_ratio']:.3f}")
 
 
+UPPER_EDGE_EFFECTS = {"van_like": (_edge_effect(10, 40, "van-like bodies"), _near_effect(1, 8, "van-like bodies")),
+                      "car": (_edge_effect(2, 10, "cars"), _near_effect(0.2, 2, "cars"))}
+CORNER_EFFECTS = {"van_like": (_edge_effect(5, 25, "van-like bodies"), _near_effect(0.5, 5, "van-like bodies")),
+                  "car": (_edge_effect(2, 8, "cars"), _near_effect(0.2, 1.6, "cars"))}
 _EDGE_THRESHOLDS = (
     Threshold("attached_ratio", "0.04", "", "r / sqrt(A) below which the flow separates at the edge", EDGE_SOURCE),
     Threshold("comfortable_ratio", "0.055", "", "r / sqrt(A) with margin for yaw and tolerances", COMMON),
@@ -44,8 +62,7 @@ _EDGE_THRESHOLDS = (
 @rule("front.upper-edge-radius", "Front upper edge radius relative to body size", "warning",
       needs=("front.upper_edge_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
       optional=_EDGE_READS + ("front.hood_edge_height", "front.air_dam_clearance"),
-      sources=(EDGE_SOURCE, FACE_SOURCE, Source("effect: 10-40 counts on van-like bodies, 2-10 on cars; from memory "
-                                                "(Hucho 1998, chapter not checked)", "from memory")))
+      sources=(EDGE_SOURCE, FACE_SOURCE, *UPPER_EDGE_EFFECTS["van_like"], *UPPER_EDGE_EFFECTS["car"]))
 def upper_edge_radius(sheet, ctx):
     """
     What it checks: the radius of the front upper edge (bumper to hood) in the side view,
@@ -70,15 +87,14 @@ def upper_edge_radius(sheet, ctx):
         fails (warning): {features: {front.upper_edge_radius: 20 mm}}
         passes: {features: {front.upper_edge_radius: 85 mm}}
     """
-    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge", (10, 40), (2, 10),
+    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge", **UPPER_EDGE_EFFECTS,
                       face=front_face_height(sheet))
 
 
 @rule("front.corner-radius", "Front corner radius in plan view relative to body size", "warning",
       needs=("front.corner_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
       optional=_EDGE_READS,
-      sources=(EDGE_SOURCE, Source("effect: 5-25 counts on van-like bodies, 2-8 on cars; from memory (Hucho 1998, "
-                                   "chapter not checked)", "from memory")))
+      sources=(EDGE_SOURCE, *CORNER_EFFECTS["van_like"], *CORNER_EFFECTS["car"]))
 def corner_radius(sheet, ctx):
     """
     What it checks: the radius of the front corners (bumper to body side) in the plan view,
@@ -98,14 +114,17 @@ def corner_radius(sheet, ctx):
         fails (warning): {features: {front.corner_radius: 40 mm}}
         passes: {features: {front.corner_radius: 190 mm}}
     """
-    return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner", (5, 25), (2, 8))
+    return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner", **CORNER_EFFECTS)
+
+
+AIR_DAM_EFFECT = Effect(3, 12, "{low}-{high} counts and less front lift; from memory (Hucho 1998, front spoilers, "
+                        "chapter not checked)", "from memory")
 
 
 @rule("front.air-dam", "Front air dam reaches below the underbody", "advisory", region="underbody",
       needs=("front.air_dam_clearance", "dimensions.ground_clearance"),
       thresholds=(Threshold("dam_depth", "15 mm", "mm", "how far the dam edge should reach below the underbody", COMMON),),
-      sources=(HUCHO, Source("effect: 3-12 counts and less front lift; from memory (Hucho 1998, front spoilers, "
-                             "chapter not checked)", "from memory")))
+      sources=(HUCHO, AIR_DAM_EFFECT))
 def air_dam(sheet, ctx):
     """
     What it checks: whether the lower edge of the front air dam reaches below the
@@ -130,14 +149,17 @@ def air_dam(sheet, ctx):
     measured = f"dam edge {MM(depth.value, signed=True)} below the underbody"
     if depth.beyond:
         return minor("the air dam does not reach below the underbody plane", **depth.shown(measured),
-                     counts=counts_range(3, 12), cl_front=-0.02)
+                     counts=AIR_DAM_EFFECT.counts(), cl_front=-0.02)
     return passed("the air dam shields the underbody", **depth.shown(measured, margin=False))
+
+
+CURTAIN_EFFECT = Effect(2, 8, "{low}-{high} counts; from memory (published production-car figures for wheel air "
+                        "curtains)", "from memory")
 
 
 @rule("front.air-curtains", "Air curtains ahead of the front wheels", "advisory", region="wheels",
       needs=("front.air_curtains",),
-      sources=(Source("effect: 2-8 counts; from memory (published production-car figures for wheel air curtains)",
-                      "from memory"),), applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
+      sources=(CURTAIN_EFFECT,), applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
 def air_curtains(sheet, ctx):
     """
     What it checks: whether ducts from the front bumper blow a sheet of air across the
@@ -159,12 +181,17 @@ def air_curtains(sheet, ctx):
     if sheet.get("front.air_curtains"):
         return passed("air curtains are fitted", measured="fitted")
     return minor("no air curtains ahead of the front wheels", measured="none", limit="fitted",
-                 counts=counts_range(2, 8))
+                 counts=CURTAIN_EFFECT.counts())
 
 
 NOSE_SOURCE = Source("Hucho 1998, front-end shape (chapter not checked): a low stagnation point and a hood "
                      "inclined by about 8-15 deg lower drag and front lift on passenger cars; thresholds recalled, "
                      "not checked", "from memory")
+
+
+FLAT_HOOD_EFFECT = Effect(1, 5, "{low}-{high} counts for a nearly flat hood; recalled, not checked", "from memory")
+STEEP_HOOD_EFFECT = Effect(1, 3, "{low}-{high} counts for a hood steep enough to separate; recalled, not checked",
+                           "from memory")
 
 
 @rule("front.hood-angle", "Hood inclination", "advisory",
@@ -173,7 +200,7 @@ NOSE_SOURCE = Source("Hucho 1998, front-end shape (chapter not checked): a low s
                             NOSE_SOURCE),
                   Threshold("steep", "20 deg", "deg", "inclination above which the flow may separate at the hood "
                                                       "leading edge", NOSE_SOURCE)),
-      sources=(NOSE_SOURCE, Source("effect: 1-5 counts; recalled, not checked", "from memory")),
+      sources=(NOSE_SOURCE, FLAT_HOOD_EFFECT, STEEP_HOOD_EFFECT),
       applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
 def hood_angle(sheet, ctx):
     """
@@ -196,19 +223,22 @@ def hood_angle(sheet, ctx):
     angle = Reading(sheet.get("front.hood_angle"), DEG, at_least=ctx["flat"], at_most=ctx["steep"], places=1)
     if angle.below:
         return minor("the hood is nearly flat: the nose stays high and blunt", **angle.shown(),
-                     counts=counts_range(1, 5), cl_front=-0.01)
+                     counts=FLAT_HOOD_EFFECT.counts(), cl_front=-0.01)
     if angle.above:
         return minor("the hood is steep enough to separate behind its leading edge", **angle.shown(),
-                     counts=counts_range(1, 3))
+                     counts=STEEP_HOOD_EFFECT.counts())
     return passed("the hood inclination is in the usual range", **angle.shown(margin=False))
+
+
+STAGNATION_EFFECT = Effect(1, 4, "{low}-{high} counts and 0.01-0.03 of front lift; recalled, not checked",
+                           "from memory")
 
 
 @rule("front.stagnation-height", "Height of the stagnation point", "advisory",
       needs=("front.stagnation_height", "dimensions.height"),
       thresholds=(Threshold("share", "36 %", "%", "stagnation height / body height above which the nose is high",
                             NOSE_SOURCE),),
-      sources=(NOSE_SOURCE, Source("effect: 1-4 counts and 0.01-0.03 of front lift; recalled, not checked",
-                                   "from memory")),
+      sources=(NOSE_SOURCE, STAGNATION_EFFECT),
       applies_to=("sedan", "fastback", "hatchback", "estate", "sports"))
 def stagnation_height(sheet, ctx):
     """
@@ -234,16 +264,19 @@ def stagnation_height(sheet, ctx):
     measured = f"{PERCENT(share.value)} of the height ({MM(height)})"
     if share.beyond:
         return minor("the nose is high: more air is sent under the car", **share.shown(measured),
-                     counts=counts_range(1, 4), cl_front=-0.02)
+                     counts=STAGNATION_EFFECT.counts(), cl_front=-0.02)
     return passed("the stagnation point is low", **share.shown(measured, margin=False))
+
+
+SPLITTER_EFFECT = Effect(1, 4, "{low}-{high} counts for the overhang beyond 60 mm, with less front lift; recalled, "
+                         "not checked", "from memory")
 
 
 @rule("front.splitter", "Front splitter overhang", "advisory",
       needs=("front.splitter_length",),
       thresholds=(Threshold("maximum", "60 mm", "mm", "overhang above which a road car's splitter adds drag and is "
                                                       "exposed to kerbs", COMMON),),
-      sources=(COMMON, Source("effect: 1-4 counts for the overhang beyond 60 mm, with less front lift; recalled, "
-                              "not checked", "from memory")))
+      sources=(COMMON, SPLITTER_EFFECT))
 def splitter(sheet, ctx):
     """
     What it checks: how far a horizontal splitter reaches forward of the bumper face.
@@ -265,5 +298,5 @@ def splitter(sheet, ctx):
     length = Reading(sheet.get("front.splitter_length"), MM, at_most=ctx["maximum"])
     if length.beyond:
         return minor("the splitter overhang is long for a road car: drag and kerb strikes", **length.shown(),
-                     counts=counts_range(1, 4))
+                     counts=SPLITTER_EFFECT.counts())
     return passed("the splitter overhang is moderate", **length.shown(margin=False))
