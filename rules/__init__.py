@@ -392,16 +392,5 @@ def counts_range(low: float, high: float) -> tuple[float, float]:
 
 
 # The zone modules register their rules on import.
-from aeroreview.rules import (  # noqa: E402,F401
-    cooling,
-    data,
-    front,
-    rear,
-    result_quality,
-    sides,
-    stability,
-    surface_agreement,
-    underbody,
-    wheels,
-    windshield,
-)
+from aeroreview.rules import (cooling, crosswind, data, decklid, front, rear, result_quality, sides,  # noqa: E402,F401
+                              stability, surface_agreement, underbody, wheels, windshield)
