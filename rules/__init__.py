@@ -29,8 +29,8 @@ import functools
 import inspect
 import math
 import re
-from dataclasses import dataclass
-from typing import Callable
+from dataclasses import dataclass, field
+from typing import Callable, Mapping
 
 from aeroreview.catalogue import REVIEW_ZONES
 from aeroreview.units import from_si, to_si
@@ -75,13 +75,15 @@ class Effect:
     ``text`` says what the range covers and where it comes from, with ``{low}`` and ``{high}``
     where the numbers go ("{low}-{high} counts; from memory"). A range per unit of something
     ("per degree of useful taper") is scaled with :meth:`counts`. Put the effect in the rule's
-    ``sources`` and cost the finding with ``EFFECT.counts(...)``, never with the numbers again.
+    ``sources`` and cost the finding with ``ctx.effect().counts(...)``, never with the numbers
+    again; a rule with several ranges names the others (``name="tall"``, ``ctx.effect("tall")``).
     """
 
     low: float
     high: float
     text: str
     kind: str
+    name: str = "effect"
 
     def __post_init__(self):
         if "{low}" not in self.text and "{high}" not in self.text:
@@ -206,9 +208,16 @@ class Context:
     reference_speed: float  # m/s
     density: float  # kg/m^3
     kinematic_viscosity: float  # m^2/s
+    effects: Mapping[str, Effect] = field(default_factory=dict, compare=False)  # the rule's declared ranges, by name
 
     def __getitem__(self, name: str) -> float:
         return self.thresholds[name]
+
+    def effect(self, name: str = "effect") -> Effect:
+        """The rule's effect range ``name``, as declared in its sources."""
+        if name not in self.effects:
+            raise KeyError(f"the rule declares no effect named {name!r} (it has {sorted(self.effects)})")
+        return self.effects[name]
 
 
 @dataclass(frozen=True)
@@ -227,6 +236,7 @@ class Rule:
     sensitivity: Sensitivity | None = None
     optional: tuple[str, ...] = ()  # features the rule reads when given (a better limit or estimate)
     applies_if: Callable | None = None  # geometry test (sheet -> bool) beside the class list
+    effects: Mapping[str, Effect] = field(default_factory=dict, compare=False)  # its sources' Effect items, by name
 
     @property
     def doc(self) -> dict[str, str]:
@@ -339,8 +349,11 @@ def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=()
         if sensitivity and (sensitivity.feature not in needs or sensitivity.fix_to not in {t.name for t in thresholds}):
             raise ValueError(f"{id}: a sensitivity needs one of the rule's features and thresholds")
         cited = tuple(item.source if isinstance(item, Effect) else item for item in sources)
+        effects = {item.name: item for item in sources if isinstance(item, Effect)}
+        if len(effects) < sum(isinstance(item, Effect) for item in sources):
+            raise ValueError(f"{id}: two effects share a name; name each with name=...")
         REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), cited, function,
-                            tuple(applies_to), figure, flow, sensitivity, tuple(optional), applies_if)
+                            tuple(applies_to), figure, flow, sensitivity, tuple(optional), applies_if, effects)
         return function
 
     return register

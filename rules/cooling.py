@@ -61,7 +61,7 @@ def inlet_area(sheet, ctx):
         controlled = shutters == "active" and sheet.get("cooling.ducts_sealed") is True
         open_share = OPEN_SHARE[shutters]
         extra = dict(Reading(ratio, PERCENT, at_most=ctx["oversize"]).shown(measured),
-                     counts=INLET_EFFECT.counts(surplus / INLET_EFFECT_AREA * open_share),
+                     counts=ctx.effect().counts(surplus / INLET_EFFECT_AREA * open_share),
                      details={"open_share": open_share})
         if controlled:
             return minor("the cooling inlet is larger than needed, but active shutters and sealed ducts close the "
@@ -71,22 +71,17 @@ def inlet_area(sheet, ctx):
                   limit=PERCENT.span(ctx["undersize"], ctx["oversize"]))
 
 
-SHUTTER_EFFECTS = {  # (no shutters, passive flaps) by powertrain
-    "combustion": (Effect(5, 20, "active shutters save {low}-{high} counts at motorway speed when closed on a combustion "
-                          "car; recalled, not checked", "from memory"),
-                   Effect(2, 8, "{low}-{high} counts left by passive flaps on a combustion car; recalled, not checked",
-                          "from memory")),
-    "electric": (Effect(3, 12, "{low}-{high} counts on an electric car, whose inlets are smaller; recalled, not checked",
-                        "from memory"),
-                 Effect(1.2, 4.8, "{low}-{high} counts left by passive flaps on an electric car; recalled, not checked",
-                        "from memory")),
-}
-
-
 @rule("cooling.shutters", "Grille shutters", "warning",
       needs=("cooling.shutters",),
       optional=("powertrain.kind",),
-      sources=(*SHUTTER_EFFECTS["combustion"], *SHUTTER_EFFECTS["electric"],
+      sources=(Effect(5, 20, "active shutters save {low}-{high} counts at motorway speed when closed on a combustion "
+                      "car; recalled, not checked", "from memory", name="combustion"),
+               Effect(2, 8, "{low}-{high} counts left by passive flaps on a combustion car; recalled, not checked",
+                      "from memory", name="combustion_passive"),
+               Effect(3, 12, "{low}-{high} counts on an electric car, whose inlets are smaller; recalled, not checked",
+                      "from memory", name="electric"),
+               Effect(1.2, 4.8, "{low}-{high} counts left by passive flaps on an electric car; recalled, not checked",
+                      "from memory", name="electric_passive"),
                Source("de Souza, Raeesi, Belzile, Caffrey and Schmitt, 'Investigation of drag reduction technologies "
                       "for light-duty vehicles...', SAE Int. J. Adv. Curr. Pract. Mobil. 1(3) (2019) 1233-1250, "
                       "doi 10.4271/2019-01-0644 (title/authors/year/venue and abstract checked on a PMC copy): active "
@@ -112,22 +107,19 @@ def shutters(sheet, ctx):
         passes: {features: {cooling.shutters: active}}
     """
     kind = sheet.get("cooling.shutters")
-    none, passive = SHUTTER_EFFECTS["electric" if sheet.get("powertrain.kind") == "electric" else "combustion"]
+    drive = "electric" if sheet.get("powertrain.kind") == "electric" else "combustion"
     if kind == "none":
         return major("the cooling inlets cannot be closed", measured="none", limit="active shutters",
-                     counts=none.counts())
+                     counts=ctx.effect(drive).counts())
     if kind == "passive":
         return minor("passive flaps recover only part of the cooling drag", measured="passive",
-                     limit="active shutters", counts=passive.counts())
+                     limit="active shutters", counts=ctx.effect(drive + "_passive").counts())
     return passed("active shutters close the inlets when cooling is not needed", measured="active")
-
-
-BYPASS_EFFECT = Effect(3, 10, "{low}-{high} counts of bypass drag; from memory", "from memory")
 
 
 @rule("cooling.sealing", "Inlets sealed to the heat exchangers", "warning",
       needs=("cooling.ducts_sealed",),
-      sources=(COMMON, BYPASS_EFFECT))
+      sources=(COMMON, Effect(3, 10, "{low}-{high} counts of bypass drag; from memory", "from memory")))
 def sealing(sheet, ctx):
     """
     What it checks: whether every leak path between the grille and the heat exchangers is
@@ -147,7 +139,7 @@ def sealing(sheet, ctx):
     if sheet.get("cooling.ducts_sealed"):
         return passed("the cooling ducts are sealed", measured="sealed")
     return major("cooling air bypasses the heat exchangers", measured="not sealed", limit="sealed",
-                 counts=BYPASS_EFFECT.counts())
+                 counts=ctx.effect().counts())
 
 
 # Cooling inlet area / frontal area that a powertrain usually needs (low, high); from memory, not checked: an
@@ -190,7 +182,7 @@ def inlet_share(sheet, ctx):
     if reading.beyond:
         surplus = (share - limit_share) * sheet.get("dimensions.frontal_area")
         return major(f"the cooling inlets are large for {'an' if kind[0] in 'aeiou' else 'a'} {kind} powertrain",
-                     **reading.shown(measured), counts=INLET_EFFECT.counts(surplus / INLET_EFFECT_AREA))
+                     **reading.shown(measured), counts=ctx.effect().counts(surplus / INLET_EFFECT_AREA))
     return passed(f"the cooling inlet area suits the {kind} powertrain", **reading.shown(measured, margin=False))
 
 
@@ -224,13 +216,10 @@ def brake_ducts(sheet, ctx):
     return passed("brake cooling is provided for", measured=measured)
 
 
-OUTLET_EFFECT = Effect(1, 4, "{low}-{high} counts when outlet air pressurises a closed wheelhouse; recalled, not "
-                       "checked", "from memory")
-
-
 @rule("cooling.outlet", "Where the cooling air leaves", "advisory",
       needs=("cooling.outlet",), optional=("wheels.wheelhouse_vented",),
-      sources=(COMMON, OUTLET_EFFECT))
+      sources=(COMMON, Effect(1, 4, "{low}-{high} counts when outlet air pressurises a closed wheelhouse; "
+                              "recalled, not checked", "from memory")))
 def outlet(sheet, ctx):
     """
     What it checks: where the cooling air leaves the engine bay, and whether the place can
@@ -253,5 +242,5 @@ def outlet(sheet, ctx):
     where = sheet.get("cooling.outlet")
     if where == "wheelhouse" and sheet.get("wheels.wheelhouse_vented") is not True:
         return minor("cooling air goes into a wheelhouse that is not vented to the side", measured=where,
-                     limit="a vented wheelhouse", counts=OUTLET_EFFECT.counts())
+                     limit="a vented wheelhouse", counts=ctx.effect().counts())
     return passed(f"the cooling air leaves through the {where}", measured=where)

@@ -135,15 +135,14 @@ YAW_DRAG_SOURCE = Source("passenger-car drag typically rises by 5-15 % from 0 to
 J1252 = Source("SAE J1252, Wind Tunnel Test Procedure for Trucks and Buses (title confirmed; a summary of its 2012 "
                "revision names its wind-averaged drag derivation); the 1981 first issue and the 7 mph mean wind are "
                "recalled, not checked; computed by aeroreview.calc.wind", "standard")
-YAW_RISE_EFFECT = Effect(25, 50, "{low}-{high} % of the drag rise above the moderate limit, as counts at zero yaw; "
-                         "recalled, not checked", "from memory")
 
 
 @rule("stability.yaw-drag-rise", "Rise of drag with yaw", "warning", needs=(), region="upper",
       thresholds=(Threshold("moderate", "15 %", "%", "rise of Cd from 0 to 10 deg that needs attention",
                             YAW_DRAG_SOURCE),
                   Threshold("steep", "25 %", "%", "rise of Cd from 0 to 10 deg that is too steep", YAW_DRAG_SOURCE)),
-      sources=(YAW_DRAG_SOURCE, YAW_RISE_EFFECT))
+      sources=(YAW_DRAG_SOURCE, Effect(25, 50, "{low}-{high} % of the drag rise above the moderate limit, as counts "
+                                       "at zero yaw; recalled, not checked", "from memory")))
 def yaw_drag_rise(sheet, ctx):
     """
     What it checks: how much the drag coefficient rises from 0 to 10 deg of yaw in the
@@ -171,7 +170,7 @@ def yaw_drag_rise(sheet, ctx):
     rise = found[1] / found[0] - 1
     measured = f"Cd {found[0]:.3f} -> {found[1]:.3f} from 0 to 10 deg ({PERCENT(rise, 1, signed=True)})"
     excess = max(0.0, found[1] - found[0] * (1 + ctx["moderate"])) * 1000
-    counts = YAW_RISE_EFFECT.counts(excess / 100)
+    counts = ctx.effect().counts(excess / 100)
     steep, moderate = (Reading(rise, PERCENT, at_most=ctx[name], places=1) for name in ("steep", "moderate"))
     if steep.beyond:
         return major("drag rises steeply with yaw", **steep.shown(measured), counts=counts)

@@ -15,14 +15,12 @@ DECKLID_SOURCE = Source("notchback decklids: a longer, higher decklid lets the b
                         "from memory")
 
 
-DECKLID_LENGTH_EFFECT = Effect(2, 6, "{low}-{high} counts and some rear lift; recalled, not checked", "from memory")
-
-
 @rule("rear.decklid-length", "Decklid length behind a slanted backlight", "advisory",
       needs=("rear.decklid_length", "dimensions.length"),
       thresholds=(Threshold("share", "5 %", "%", "decklid length / vehicle length below which the tail is too short "
                                                   "for the backlight flow to reattach", DECKLID_SOURCE),),
-      sources=(DECKLID_SOURCE, DECKLID_LENGTH_EFFECT),
+      sources=(DECKLID_SOURCE, Effect(2, 6, "{low}-{high} counts and some rear lift; recalled, not checked",
+                                      "from memory")),
       applies_if=slanted_rear)
 def decklid_length(sheet, ctx):
     """
@@ -48,19 +46,16 @@ def decklid_length(sheet, ctx):
     measured = f"{PERCENT(share.value, 1)} of the length ({MM(length)})"
     if share.beyond:
         return minor("the decklid is short: the backlight flow has no deck to reattach to", **share.shown(measured),
-                     counts=DECKLID_LENGTH_EFFECT.counts(), cl_rear=-0.02)
+                     counts=ctx.effect().counts(), cl_rear=-0.02)
     return passed("the decklid gives the backlight flow room to reattach", **share.shown(measured, margin=False))
-
-
-DECKLID_ANGLE_EFFECT = Effect(1, 4, "{low}-{high} counts and 0.01-0.04 more rear lift; recalled, not checked",
-                              "from memory")
 
 
 @rule("rear.decklid-angle", "Decklid falling toward the rear edge", "advisory",
       needs=("rear.decklid_angle",),
       thresholds=(Threshold("falling", "8 deg", "deg", "decklid fall above which the tail loses its kick-up effect",
                             DECKLID_SOURCE),),
-      sources=(DECKLID_SOURCE, DECKLID_ANGLE_EFFECT))
+      sources=(DECKLID_SOURCE, Effect(1, 4, "{low}-{high} counts and 0.01-0.04 more rear lift; recalled, not checked",
+                                      "from memory")))
 def decklid_angle(sheet, ctx):
     """
     What it checks: how steeply the decklid falls toward the rear edge in the side view.
@@ -82,5 +77,5 @@ def decklid_angle(sheet, ctx):
     measured = DEG(angle.value, 1, signed=True)
     if angle.beyond:
         return minor("the decklid falls steeply toward the rear edge: rear lift rises", **angle.shown(measured),
-                     counts=DECKLID_ANGLE_EFFECT.counts(), cl_rear=-0.02)
+                     counts=ctx.effect().counts(), cl_rear=-0.02)
     return passed("the decklid is level enough to hold the tail flow", **angle.shown(measured, margin=False))

@@ -15,44 +15,42 @@ FACE_SOURCE = Source("low car noses: the radius is compared with the height of t
 _EDGE_READS = ("dimensions.frontal_area", "dimensions.width", "dimensions.height", "vehicle.class")
 
 
-def _edge_effect(low: float, high: float, bodies: str) -> Effect:
-    return Effect(low, high, "{low}-{high} counts on " + bodies + " with a separated edge, times the radius shortfall; "
-                  "from memory (Hucho 1998, chapter not checked)", "from memory")
+def _edge_effects(van_like: tuple[float, float], car: tuple[float, float]) -> tuple[Effect, ...]:
+    """The edge rules' ranges: a separated edge (times the radius shortfall) and a radius near the limit, by body.
 
-
-def _near_effect(low: float, high: float, bodies: str) -> Effect:
-    return Effect(low, high, "{low}-{high} counts on " + bodies + " with the radius between the attached and the "
-                  "comfortable ratio (a tenth to a fifth of the separated range); from memory", "from memory")
-
-
-def _edge_rule(sheet, ctx, key: str, what: str, van_like: tuple[Effect, Effect], car: tuple[Effect, Effect],
-               face=None):
-    """Judge an edge radius against a length: the front face height when given (low noses), else sqrt(A).
-
-    ``van_like`` and ``car`` are the effects (separated edge, radius near the limit) for each kind of body.
+    Named ``van_like``, ``van_like_near``, ``car`` and ``car_near``.
     """
+    effects = []
+    for body, (low, high) in (("van_like", van_like), ("car", car)):
+        bodies = "van-like bodies" if body == "van_like" else "cars"
+        effects += [Effect(low, high, "{low}-{high} counts on " + bodies + " with a separated edge, times the radius "
+                           "shortfall; from memory (Hucho 1998, chapter not checked)", "from memory", name=body),
+                    Effect(0.1 * low, 0.2 * high, "{low}-{high} counts on " + bodies + " with the radius between the "
+                           "attached and the comfortable ratio (a tenth to a fifth of the separated range); from memory",
+                           "from memory", name=body + "_near")]
+    return tuple(effects)
+
+
+def _edge_rule(sheet, ctx, key: str, what: str, face=None):
+    """Judge an edge radius against a length: the front face height when given (low noses), else sqrt(A)."""
     scale, against = (face, "front face height h") if face else (body_scale(sheet), "sqrt(A)")
     radius = sheet.get(key)
     ratio = radius / scale
     boxy = sheet.get("vehicle.class") in BOX_CLASSES
-    separated, near = van_like if boxy else car
+    body = "van_like" if boxy else "car"
     measured = f"r / {against} = {ratio:.3f} ({MM(radius)} on {MM(scale)})"
     if ratio < ctx["attached_ratio"]:
         shortfall = 1 - ratio / ctx["attached_ratio"]
         return major(f"{what} radius is small for the body size: the flow separates at the edge",
                      measured=measured, limit=f">= {ctx['attached_ratio']:.3f}", margin=f"{ratio - ctx['attached_ratio']:+.3f}",
-                     counts=separated.counts(shortfall))
+                     counts=ctx.effect(body).counts(shortfall))
     if ratio < ctx["comfortable_ratio"]:
         return minor(f"{what} radius is near the limit where the flow stays attached",
                      measured=measured, limit=f">= {ctx['comfortable_ratio']:.3f}",
-                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=near.counts())
+                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=ctx.effect(body + "_near").counts())
     return passed(f"{what} radius keeps the flow attached", measured=measured, limit=f">= {ctx['attached_ratio']:.3f}")
 
 
-UPPER_EDGE_EFFECTS = {"van_like": (_edge_effect(10, 40, "van-like bodies"), _near_effect(1, 8, "van-like bodies")),
-                      "car": (_edge_effect(2, 10, "cars"), _near_effect(0.2, 2, "cars"))}
-CORNER_EFFECTS = {"van_like": (_edge_effect(5, 25, "van-like bodies"), _near_effect(0.5, 5, "van-like bodies")),
-                  "car": (_edge_effect(2, 8, "cars"), _near_effect(0.2, 1.6, "cars"))}
 _EDGE_THRESHOLDS = (
     Threshold("attached_ratio", "0.04", "", "r / sqrt(A) below which the flow separates at the edge", EDGE_SOURCE),
     Threshold("comfortable_ratio", "0.055", "", "r / sqrt(A) with margin for yaw and tolerances", COMMON),
@@ -62,7 +60,7 @@ _EDGE_THRESHOLDS = (
 @rule("front.upper-edge-radius", "Front upper edge radius relative to body size", "warning",
       needs=("front.upper_edge_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
       optional=_EDGE_READS + ("front.hood_edge_height", "front.air_dam_clearance"),
-      sources=(EDGE_SOURCE, FACE_SOURCE, *UPPER_EDGE_EFFECTS["van_like"], *UPPER_EDGE_EFFECTS["car"]))
+      sources=(EDGE_SOURCE, FACE_SOURCE, *_edge_effects(van_like=(10, 40), car=(2, 10))))
 def upper_edge_radius(sheet, ctx):
     """
     What it checks: the radius of the front upper edge (bumper to hood) in the side view,
@@ -87,14 +85,14 @@ def upper_edge_radius(sheet, ctx):
         fails (warning): {features: {front.upper_edge_radius: 20 mm}}
         passes: {features: {front.upper_edge_radius: 85 mm}}
     """
-    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge", **UPPER_EDGE_EFFECTS,
+    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge",
                       face=front_face_height(sheet))
 
 
 @rule("front.corner-radius", "Front corner radius in plan view relative to body size", "warning",
       needs=("front.corner_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
       optional=_EDGE_READS,
-      sources=(EDGE_SOURCE, *CORNER_EFFECTS["van_like"], *CORNER_EFFECTS["car"]))
+      sources=(EDGE_SOURCE, *_edge_effects(van_like=(5, 25), car=(2, 8))))
 def corner_radius(sheet, ctx):
     """
     What it checks: the radius of the front corners (bumper to body side) in the plan view,
@@ -114,17 +112,14 @@ def corner_radius(sheet, ctx):
         fails (warning): {features: {front.corner_radius: 40 mm}}
         passes: {features: {front.corner_radius: 190 mm}}
     """
-    return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner", **CORNER_EFFECTS)
-
-
-AIR_DAM_EFFECT = Effect(3, 12, "{low}-{high} counts and less front lift; from memory (Hucho 1998, front spoilers, "
-                        "chapter not checked)", "from memory")
+    return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner")
 
 
 @rule("front.air-dam", "Front air dam reaches below the underbody", "advisory", region="underbody",
       needs=("front.air_dam_clearance", "dimensions.ground_clearance"),
       thresholds=(Threshold("dam_depth", "15 mm", "mm", "how far the dam edge should reach below the underbody", COMMON),),
-      sources=(HUCHO, AIR_DAM_EFFECT))
+      sources=(HUCHO, Effect(3, 12, "{low}-{high} counts and less front lift; from memory (Hucho 1998, front spoilers, "
+                             "chapter not checked)", "from memory")))
 def air_dam(sheet, ctx):
     """
     What it checks: whether the lower edge of the front air dam reaches below the
@@ -149,17 +144,15 @@ def air_dam(sheet, ctx):
     measured = f"dam edge {MM(depth.value, signed=True)} below the underbody"
     if depth.beyond:
         return minor("the air dam does not reach below the underbody plane", **depth.shown(measured),
-                     counts=AIR_DAM_EFFECT.counts(), cl_front=-0.02)
+                     counts=ctx.effect().counts(), cl_front=-0.02)
     return passed("the air dam shields the underbody", **depth.shown(measured, margin=False))
-
-
-CURTAIN_EFFECT = Effect(2, 8, "{low}-{high} counts; from memory (published production-car figures for wheel air "
-                        "curtains)", "from memory")
 
 
 @rule("front.air-curtains", "Air curtains ahead of the front wheels", "advisory", region="wheels",
       needs=("front.air_curtains",),
-      sources=(CURTAIN_EFFECT,), applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
+      sources=(Effect(2, 8, "{low}-{high} counts; from memory (published production-car figures for wheel air "
+                      "curtains)", "from memory"),),
+      applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
 def air_curtains(sheet, ctx):
     """
     What it checks: whether ducts from the front bumper blow a sheet of air across the
@@ -181,17 +174,12 @@ def air_curtains(sheet, ctx):
     if sheet.get("front.air_curtains"):
         return passed("air curtains are fitted", measured="fitted")
     return minor("no air curtains ahead of the front wheels", measured="none", limit="fitted",
-                 counts=CURTAIN_EFFECT.counts())
+                 counts=ctx.effect().counts())
 
 
 NOSE_SOURCE = Source("Hucho 1998, front-end shape (chapter not checked): a low stagnation point and a hood "
                      "inclined by about 8-15 deg lower drag and front lift on passenger cars; thresholds recalled, "
                      "not checked", "from memory")
-
-
-FLAT_HOOD_EFFECT = Effect(1, 5, "{low}-{high} counts for a nearly flat hood; recalled, not checked", "from memory")
-STEEP_HOOD_EFFECT = Effect(1, 3, "{low}-{high} counts for a hood steep enough to separate; recalled, not checked",
-                           "from memory")
 
 
 @rule("front.hood-angle", "Hood inclination", "advisory",
@@ -200,7 +188,10 @@ STEEP_HOOD_EFFECT = Effect(1, 3, "{low}-{high} counts for a hood steep enough to
                             NOSE_SOURCE),
                   Threshold("steep", "20 deg", "deg", "inclination above which the flow may separate at the hood "
                                                       "leading edge", NOSE_SOURCE)),
-      sources=(NOSE_SOURCE, FLAT_HOOD_EFFECT, STEEP_HOOD_EFFECT),
+      sources=(NOSE_SOURCE,
+               Effect(1, 5, "{low}-{high} counts for a nearly flat hood; recalled, not checked", "from memory"),
+               Effect(1, 3, "{low}-{high} counts for a hood steep enough to separate; recalled, not checked",
+                      "from memory", name="steep")),
       applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
 def hood_angle(sheet, ctx):
     """
@@ -223,22 +214,19 @@ def hood_angle(sheet, ctx):
     angle = Reading(sheet.get("front.hood_angle"), DEG, at_least=ctx["flat"], at_most=ctx["steep"], places=1)
     if angle.below:
         return minor("the hood is nearly flat: the nose stays high and blunt", **angle.shown(),
-                     counts=FLAT_HOOD_EFFECT.counts(), cl_front=-0.01)
+                     counts=ctx.effect().counts(), cl_front=-0.01)
     if angle.above:
         return minor("the hood is steep enough to separate behind its leading edge", **angle.shown(),
-                     counts=STEEP_HOOD_EFFECT.counts())
+                     counts=ctx.effect("steep").counts())
     return passed("the hood inclination is in the usual range", **angle.shown(margin=False))
-
-
-STAGNATION_EFFECT = Effect(1, 4, "{low}-{high} counts and 0.01-0.03 of front lift; recalled, not checked",
-                           "from memory")
 
 
 @rule("front.stagnation-height", "Height of the stagnation point", "advisory",
       needs=("front.stagnation_height", "dimensions.height"),
       thresholds=(Threshold("share", "36 %", "%", "stagnation height / body height above which the nose is high",
                             NOSE_SOURCE),),
-      sources=(NOSE_SOURCE, STAGNATION_EFFECT),
+      sources=(NOSE_SOURCE, Effect(1, 4, "{low}-{high} counts and 0.01-0.03 of front lift; recalled, not checked",
+                                   "from memory")),
       applies_to=("sedan", "fastback", "hatchback", "estate", "sports"))
 def stagnation_height(sheet, ctx):
     """
@@ -264,19 +252,16 @@ def stagnation_height(sheet, ctx):
     measured = f"{PERCENT(share.value)} of the height ({MM(height)})"
     if share.beyond:
         return minor("the nose is high: more air is sent under the car", **share.shown(measured),
-                     counts=STAGNATION_EFFECT.counts(), cl_front=-0.02)
+                     counts=ctx.effect().counts(), cl_front=-0.02)
     return passed("the stagnation point is low", **share.shown(measured, margin=False))
-
-
-SPLITTER_EFFECT = Effect(1, 4, "{low}-{high} counts for the overhang beyond 60 mm, with less front lift; recalled, "
-                         "not checked", "from memory")
 
 
 @rule("front.splitter", "Front splitter overhang", "advisory",
       needs=("front.splitter_length",),
       thresholds=(Threshold("maximum", "60 mm", "mm", "overhang above which a road car's splitter adds drag and is "
                                                       "exposed to kerbs", COMMON),),
-      sources=(COMMON, SPLITTER_EFFECT))
+      sources=(COMMON, Effect(1, 4, "{low}-{high} counts for the overhang beyond the maximum, with less front "
+                              "lift; recalled, not checked", "from memory")))
 def splitter(sheet, ctx):
     """
     What it checks: how far a horizontal splitter reaches forward of the bumper face.
@@ -298,5 +283,5 @@ def splitter(sheet, ctx):
     length = Reading(sheet.get("front.splitter_length"), MM, at_most=ctx["maximum"])
     if length.beyond:
         return minor("the splitter overhang is long for a road car: drag and kerb strikes", **length.shown(),
-                     counts=SPLITTER_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("the splitter overhang is moderate", **length.shown(margin=False))

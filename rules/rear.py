@@ -20,11 +20,6 @@ RADIUS_SOURCE = Source("Thacker, Aubrun, Leroy and Devinant, rounded roof-to-sla
                        "as J. Wind Eng. Ind. Aerodyn. 107-108 (2012) (their Exp. Fluids paper is recalled as vol. 54, "
                        "2013); search found neither title nor abstract, so venue, volume and the 0.15 threshold are "
                        "recalled, not checked", "from memory")
-RADIUS_EFFECT = Effect(0, 60, "a generous roof-to-backlight radius removes up to {high} % of the Ahmed-curve drag "
-                       "step, in proportion to r / sqrt(A) up to 0.15; recalled, not checked (rounded-edge Ahmed "
-                       "studies)", "from memory")
-BACKLIGHT_EFFECT = Effect(20, 60, "{low}-{high} % of the Ahmed-curve drag step (with the curve's uncertainty); "
-                          "production bodies respond less than the Ahmed body; recalled, not checked", "from memory")
 COUNTS_PER_PERCENT_OF_CD = 1000 / 100  # 1 drag count = 0.001 of Cd (common practice)
 TAPER_SOURCE = Source("Hucho 1998, boat-tailing (chapter not checked): drag falls with taper angle up to about 15 deg, "
                       "beyond which the flow separates from the taper; recalled, not checked", "from memory")
@@ -47,7 +42,12 @@ def slanted_rear(sheet) -> bool:
           Threshold("generous_radius", "0.15", "", "roof-to-backlight radius / sqrt(A) that steadies the flow",
                     RADIUS_SOURCE),
       ),
-      sources=(AHMED, BAND, RADIUS_SOURCE, RADIUS_EFFECT, BACKLIGHT_EFFECT),
+      sources=(AHMED, BAND, RADIUS_SOURCE,
+               Effect(0, 60, "a generous roof-to-backlight radius removes up to {high} % of the Ahmed-curve drag step, "
+                      "in proportion to r / sqrt(A) up to 0.15; recalled, not checked (rounded-edge Ahmed studies)",
+                      "from memory", name="radius"),
+               Effect(20, 60, "{low}-{high} % of the Ahmed-curve drag step (with the curve's uncertainty); production "
+                      "bodies respond less than the Ahmed body; recalled, not checked", "from memory")),
       applies_if=slanted_rear, figure="ahmed",
       sensitivity=Sensitivity("rear.backlight_angle", 3.2, "deg", (20, 28), "rising_low", Source(
           "the Ahmed curve rises about 8 counts per deg from 20 to 28 deg (SAE 840300, values from memory); x 0.4 "
@@ -96,8 +96,8 @@ def backlight_angle(sheet, ctx):
     reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(beyond))
     step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
     share = 1.0 if generous else (ratio / ctx["generous_radius"] if ratio else 0.0)  # a ratio below the limit
-    steadied = 1 - RADIUS_EFFECT.high / 100 * share  # the radius lowers the estimate too
-    counts = BACKLIGHT_EFFECT.counts(COUNTS_PER_PERCENT_OF_CD * (step - spread) * steadied,
+    steadied = 1 - ctx.effect("radius").high / 100 * share  # the radius lowers the estimate too
+    counts = ctx.effect().counts(COUNTS_PER_PERCENT_OF_CD * (step - spread) * steadied,
                                      COUNTS_PER_PERCENT_OF_CD * (step + spread) * steadied)
     details = {"ahmed_step": round(step, 4), "ahmed_uncertainty": spread, "radius_factor": round(steadied, 3)}
     if low <= degrees <= high:
@@ -121,7 +121,7 @@ def backlight_angle(sheet, ctx):
 TAPER_EFFECT = Effect(0.8, 2, "about {low}-{high} counts per degree of useful taper missing (up to 5 deg past the "
                       "useful limit); from memory", "from memory")
 OVER_TAPER_EFFECT = Effect(3, 12, "{low}-{high} counts for a taper steeper than the flow can follow; from memory",
-                           "from memory")
+                           "from memory", name="over")
 TAPER_REACH = 5.0  # deg past the useful limit where most of the taper gain is won (from memory, with TAPER_EFFECT)
 
 
@@ -129,11 +129,11 @@ def _taper(sheet, ctx, key: str, where: str):
     angle = Reading(sheet.get(key), DEG, at_least=ctx["useful"], at_most=ctx["separation"], places=1)
     if angle.above:
         return major(f"the {where} taper is steeper than the flow can follow: separation returns", **angle.shown(),
-                     counts=OVER_TAPER_EFFECT.counts())
+                     counts=ctx.effect("over").counts())
     if angle.below:
         missing = math.degrees(ctx["useful"]) + TAPER_REACH - math.degrees(angle.value)
         return minor(f"the {where} has little or no taper: free drag reduction left on the table", **angle.shown(),
-                     counts=TAPER_EFFECT.counts(missing))
+                     counts=ctx.effect().counts(missing))
     return passed(f"the {where} taper is in the useful range", **angle.shown(margin=False))
 
 
@@ -196,13 +196,10 @@ def roof_taper(sheet, ctx):
     return _taper(sheet, ctx, "rear.roof_taper_angle", "roof")
 
 
-SEPARATION_EDGE_EFFECT = Effect(3, 12, "{low}-{high} counts; from memory", "from memory")
-
-
 @rule("rear.separation-edge", "Defined separation edges at the rear", "warning",
       needs=("rear.separation_edge_radius",),
       thresholds=(Threshold("radius", "10 mm", "mm", "edge radius above which the separation line wanders", COMMON),),
-      sources=(COMMON, HUCHO_SOVRAN, SEPARATION_EDGE_EFFECT))
+      sources=(COMMON, HUCHO_SOVRAN, Effect(3, 12, "{low}-{high} counts; from memory", "from memory")))
 def separation_edge(sheet, ctx):
     """
     What it checks: that the rear edges where the flow should leave the body (tail lamp
@@ -223,20 +220,17 @@ def separation_edge(sheet, ctx):
     radius = Reading(sheet.get("rear.separation_edge_radius"), MM, at_most=ctx["radius"])
     if radius.beyond:
         return major("the rear edges are rounded: the separation line is not fixed", **radius.shown(),
-                     counts=SEPARATION_EDGE_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("the rear edges fix the separation line", **radius.shown(margin=False))
-
-
-SPOILER_EFFECT = Effect(2, 8, "{low}-{high} counts and 0.02-0.06 less rear lift; from memory", "from memory")
-TALL_SPOILER_EFFECT = Effect(2, 6, "{low}-{high} counts for a spoiler above the maximum height (its own drag); from "
-                             "memory", "from memory")
 
 
 @rule("rear.spoiler", "Rear spoiler or kick-up height", "advisory",
       needs=("rear.spoiler_height",),
       thresholds=(Threshold("minimum", "10 mm", "mm", "height below which a kick-up does little", COMMON),
                   Threshold("maximum", "80 mm", "mm", "height above which the spoiler's own drag dominates", HUCHO)),
-      sources=(HUCHO, SPOILER_EFFECT, TALL_SPOILER_EFFECT))
+      sources=(HUCHO, Effect(2, 8, "{low}-{high} counts and 0.02-0.06 less rear lift; from memory", "from memory"),
+               Effect(2, 6, "{low}-{high} counts for a spoiler above the maximum height (its own drag); from memory",
+                      "from memory", name="tall")))
 def spoiler(sheet, ctx):
     """
     What it checks: the height of the rear spoiler or decklid kick-up above the local surface.
@@ -257,20 +251,17 @@ def spoiler(sheet, ctx):
     height = Reading(sheet.get("rear.spoiler_height"), MM, at_least=ctx["minimum"], at_most=ctx["maximum"])
     if height.below:
         return minor("no effective kick-up or spoiler at the rear edge", **height.shown(margin=False),
-                     counts=SPOILER_EFFECT.counts(), cl_rear=-0.04)
+                     counts=ctx.effect().counts(), cl_rear=-0.04)
     if height.above:
         return minor("the spoiler is tall: check that its drag is paid for by the rear lift target",
-                     **height.shown(margin=False), counts=TALL_SPOILER_EFFECT.counts())
+                     **height.shown(margin=False), counts=ctx.effect("tall").counts())
     return passed("the rear kick-up height is in the useful range", **height.shown(margin=False))
-
-
-RAIL_EFFECT = Effect(5, 15, "raised rails {low}-{high} counts; from memory (published production-car comparisons)",
-                     "from memory")
 
 
 @rule("rear.roof-rails", "Roof rails", "warning", region="appendages",
       needs=("rear.roof_rails",),
-      sources=(RAIL_EFFECT,))
+      sources=(Effect(5, 15, "raised rails {low}-{high} counts; from memory (published production-car comparisons)",
+                      "from memory"),))
 def roof_rails(sheet, ctx):
     """
     What it checks: whether the roof rails stand on feet in the flow.
@@ -290,13 +281,8 @@ def roof_rails(sheet, ctx):
     rails = sheet.get("rear.roof_rails")
     if rails == "raised":
         return major("raised roof rails stand in the fastest flow on the body", measured="raised", limit="flush or none",
-                     counts=RAIL_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("no raised roof rails", measured=rails)
-
-
-BASE_EFFECT = Effect(0.15, 0.25, "base drag = -Cp_base x A_base / A with a base pressure coefficient of about -{low} "
-                     "to -{high} on passenger cars; Hucho 1998 (chapter not checked), recalled, not checked",
-                     "from memory")
 
 
 @rule("rear.base-area", "Base (wake) area against the frontal area", "advisory",
@@ -305,7 +291,9 @@ BASE_EFFECT = Effect(0.15, 0.25, "base drag = -Cp_base x A_base / A with a base 
                             COMMON),
                   Threshold("box_share", "85 %", "%", "the same for upright bodies (vans, SUVs, pickups, crossovers)",
                             COMMON)),
-      sources=(BASE_EFFECT, HUCHO))
+      sources=(Effect(0.15, 0.25, "base drag = -Cp_base x A_base / A with a base pressure coefficient of about -{low} "
+                      "to -{high} on passenger cars; Hucho 1998 (chapter not checked), recalled, not checked",
+                      "from memory"), HUCHO))
 def base_area(sheet, ctx):
     """
     What it checks: the area of the near-vertical rear face (the base the wake starts from)
@@ -332,5 +320,5 @@ def base_area(sheet, ctx):
     if reading.beyond:
         excess = share - limit_share
         return minor("the base is large: its wake pressure acts on a large area", **reading.shown(measured),
-                     counts=BASE_EFFECT.counts(1000 * excess))
+                     counts=ctx.effect().counts(1000 * excess))
     return passed("the base is compact", **reading.shown(measured, margin=False))

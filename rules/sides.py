@@ -5,8 +5,6 @@ from __future__ import annotations
 from aeroreview.display import CM2, MM, PERCENT, Reading
 from aeroreview.rules import COMMON, Effect, Source, Threshold, major, minor, passed, rule
 
-MIRROR_EFFECT = Effect(0.4, 0.6, "mirror head Cd {low}-{high} on its own area, so mirrors cost 1000 x Cd_m x A_m / A "
-                       "counts; from memory (Hucho 1998, chapter not checked)", "from memory")
 LARGE_MIRROR_CLASSES = ("van", "pickup")  # wide bodies and trailers need a larger field of view (common practice)
 
 
@@ -16,7 +14,8 @@ LARGE_MIRROR_CLASSES = ("van", "pickup")  # wide bodies and trailers need a larg
                             COMMON),
                   Threshold("share_large", "2.5 %", "%", "the same for vans and pickups, whose field of view "
                                                           "needs larger mirrors", COMMON)),
-      sources=(MIRROR_EFFECT,
+      sources=(Effect(0.4, 0.6, "mirror head Cd {low}-{high} on its own area, so mirrors cost 1000 x Cd_m x A_m / A "
+                      "counts; from memory (Hucho 1998, chapter not checked)", "from memory"),
                Source("camera pods replacing mirrors: typical production figures 5-10 counts; from memory",
                       "from memory")))
 def mirror_area(sheet, ctx):
@@ -47,24 +46,21 @@ def mirror_area(sheet, ctx):
     area, frontal = sheet.get("sides.mirror_area"), sheet.get("dimensions.frontal_area")
     share = area / frontal
     allowed = ctx["share_large"] if sheet.get("vehicle.class") in LARGE_MIRROR_CLASSES else ctx["share"]
-    cost = (1000 * MIRROR_EFFECT.low * area / frontal, 1000 * MIRROR_EFFECT.high * area / frontal)
+    cost = (1000 * ctx.effect().low * area / frontal, 1000 * ctx.effect().high * area / frontal)
     reading = Reading(share, PERCENT, at_most=allowed, places=2, limit_places=1)
     measured = f"{PERCENT(share, 2)} of A ({CM2(area)})"
     if reading.beyond:
         excess = (area - allowed * frontal) / frontal  # share of A above the limit
         return major(f"the mirrors are large; they cost about {cost[0]:.0f}-{cost[1]:.0f} counts in all",
-                     **reading.shown(measured), counts=MIRROR_EFFECT.counts(1000 * excess))
+                     **reading.shown(measured), counts=ctx.effect().counts(1000 * excess))
     return passed(f"mirror size is moderate (about {cost[0]:.0f}-{cost[1]:.0f} counts in all)",
                   **reading.shown(measured, margin=False))
-
-
-MIRROR_GAP_EFFECT = Effect(1, 5, "{low}-{high} counts, and wind noise; from memory", "from memory")
 
 
 @rule("sides.mirror-gap", "Gap between mirror housing and side glass", "warning",
       needs=("sides.mirror_gap",), optional=("sides.mirror_kind",),
       thresholds=(Threshold("gap", "45 mm", "mm", "gap below which the channel flow interferes", COMMON),),
-      sources=(COMMON, MIRROR_GAP_EFFECT))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts, and wind noise; from memory", "from memory")))
 def mirror_gap(sheet, ctx):
     """
     What it checks: the clear gap between the mirror housing and the side glass.
@@ -86,16 +82,13 @@ def mirror_gap(sheet, ctx):
     gap = Reading(sheet.get("sides.mirror_gap"), MM, at_least=ctx["gap"])
     if gap.beyond:
         return major("the mirror sits close to the glass: channel flow, drag and noise", **gap.shown(),
-                     counts=MIRROR_GAP_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("the mirror gap is clear", **gap.shown(margin=False))
-
-
-HANDLE_EFFECT = Effect(1, 4, "protruding handles {low}-{high} counts; from memory", "from memory")
 
 
 @rule("sides.door-handles", "Door handles flush with the skin", "advisory",
       needs=("sides.door_handles",),
-      sources=(HANDLE_EFFECT,))
+      sources=(Effect(1, 4, "protruding handles {low}-{high} counts; from memory", "from memory"),))
 def door_handles(sheet, ctx):
     """
     What it checks: whether the door handles protrude from the skin.
@@ -114,17 +107,14 @@ def door_handles(sheet, ctx):
     handles = sheet.get("sides.door_handles")
     if handles == "protruding":
         return minor("the door handles protrude into the flow", measured=handles, limit="flush or recessed",
-                     counts=HANDLE_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("the door handles do not protrude", measured=handles)
-
-
-SILL_EFFECT = Effect(1, 3, "{low}-{high} counts; from memory", "from memory")
 
 
 @rule("sides.sill-step", "Sill set-back below the doors", "advisory",
       needs=("sides.sill_step",),
       thresholds=(Threshold("step", "15 mm", "mm", "set-back above which the side flow is drawn under", COMMON),),
-      sources=(COMMON, SILL_EFFECT))
+      sources=(COMMON, Effect(1, 3, "{low}-{high} counts; from memory", "from memory")))
 def sill_step(sheet, ctx):
     """
     What it checks: the inboard step of the sill below the door surface.
@@ -144,17 +134,14 @@ def sill_step(sheet, ctx):
     step = Reading(sheet.get("sides.sill_step"), MM, at_most=ctx["step"])
     if step.beyond:
         return minor("the sill is set back deeply below the doors", **step.shown(margin=False),
-                     counts=SILL_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("the sill follows the door line", **step.shown(margin=False))
-
-
-PANEL_GAP_EFFECT = Effect(0.5, 2, "{low}-{high} counts, and wind noise; recalled, not checked", "from memory")
 
 
 @rule("sides.panel-gap", "Shut-line gaps on the body side", "advisory",
       needs=("sides.panel_gap",),
       thresholds=(Threshold("gap", "5 mm", "mm", "nominal gap above which shut lines trip the side flow", COMMON),),
-      sources=(COMMON, PANEL_GAP_EFFECT))
+      sources=(COMMON, Effect(0.5, 2, "{low}-{high} counts, and wind noise; recalled, not checked", "from memory")))
 def panel_gap(sheet, ctx):
     """
     What it checks: the nominal shut-line gap on the body side (doors, fenders, tailgate).
@@ -174,5 +161,5 @@ def panel_gap(sheet, ctx):
     """
     gap = Reading(sheet.get("sides.panel_gap"), MM, at_most=ctx["gap"], places=1)
     if gap.beyond:
-        return minor("the side shut lines are wide", **gap.shown(), counts=PANEL_GAP_EFFECT.counts())
+        return minor("the side shut lines are wide", **gap.shown(), counts=ctx.effect().counts())
     return passed("the shut lines are tight", **gap.shown(margin=False))

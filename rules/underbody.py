@@ -18,11 +18,6 @@ COOPER = Source("Cooper, Bertenyi, Dutil, Syms and Sovran, 'The aerodynamic perf
                 "limits used here are recalled, not checked", "published")
 
 
-COVERAGE_EFFECT = Effect(20, 50, "a fully panelled floor saves {low}-{high} counts against an open one, in "
-                         "proportion to the coverage gained; from memory (Hucho 1998, underbody, chapter not checked)",
-                         "from memory")
-
-
 @rule("underbody.panel-coverage", "Underbody panel coverage", "warning",
       needs=("underbody.panel_coverage",),
       optional=("powertrain.kind",),
@@ -30,7 +25,9 @@ COVERAGE_EFFECT = Effect(20, 50, "a fully panelled floor saves {low}-{high} coun
                   Threshold("battery_target", "90 %", "%", "coverage an electric vehicle's flat battery floor makes "
                                                            "easy to reach", COMMON),
                   Threshold("poor", "50 %", "%", "coverage below which the underbody is largely open", COMMON)),
-      sources=(COMMON, COVERAGE_EFFECT),
+      sources=(COMMON, Effect(20, 50, "a fully panelled floor saves {low}-{high} counts against an open one, in "
+                              "proportion to the coverage gained; from memory (Hucho 1998, underbody, chapter not "
+                              "checked)", "from memory")),
       sensitivity=Sensitivity("underbody.panel_coverage", -0.35, "%", (25, 100), "target", Source(
           "the middle of the rule's 20-50 counts for a fully panelled floor, per % of coverage",
           "from memory")))
@@ -60,18 +57,12 @@ def panel_coverage(sheet, ctx):
     gap = target - coverage
     reading = Reading(coverage, PERCENT, at_least=target)
     if coverage < ctx["poor"]:
-        return major("the underbody is largely open", **reading.shown(), counts=COVERAGE_EFFECT.counts(gap),
+        return major("the underbody is largely open", **reading.shown(), counts=ctx.effect().counts(gap),
                      cl_front=-0.01, cl_rear=-0.01)
     if reading.beyond:
         return minor("the underbody panels leave parts open", **reading.shown(),
-                     counts=COVERAGE_EFFECT.counts(gap))
+                     counts=ctx.effect().counts(gap))
     return passed("the underbody is well covered", **reading.shown(margin=False))
-
-
-DIFFUSER_EFFECT = Effect(5, 20, "a separated diffuser loses {low}-{high} counts and its downforce; recalled, not "
-                         "checked", "from memory")
-DIFFUSER_EDGE_EFFECT = Effect(1, 5, "{low}-{high} counts for a diffuser close to separation; recalled, not checked",
-                              "from memory")
 
 
 @rule("underbody.diffuser-angle", "Diffuser angle the flow can follow", "failure",
@@ -79,7 +70,11 @@ DIFFUSER_EDGE_EFFECT = Effect(1, 5, "{low}-{high} counts for a diffuser close to
       thresholds=(Threshold("separation", "12 deg", "deg", "angle above which the diffuser flow separates",
                             DIFFUSER_SOURCE),
                   Threshold("edge", "10 deg", "deg", "angle above which separation is near", DIFFUSER_SOURCE)),
-      sources=(DIFFUSER_SOURCE, COOPER, DIFFUSER_EFFECT, DIFFUSER_EDGE_EFFECT),
+      sources=(DIFFUSER_SOURCE, COOPER,
+               Effect(5, 20, "a separated diffuser loses {low}-{high} counts and its downforce; recalled, not checked",
+                      "from memory"),
+               Effect(1, 5, "{low}-{high} counts for a diffuser close to separation; recalled, not checked",
+                      "from memory", name="edge")),
       sensitivity=Sensitivity("underbody.diffuser_angle", 2.0, "deg", (8, 16), "edge", Source(
           "about 2 counts per deg steeper where the diffuser flow starts to separate (the rule's 5-20 counts over "
           "the separation)", "from memory")))
@@ -107,19 +102,16 @@ def diffuser_angle(sheet, ctx):
     edge = Reading(angle, DEG, at_most=ctx["edge"], places=1)
     if separation.beyond:
         return major("the diffuser is steeper than the flow can follow: it separates", **separation.shown(),
-                     counts=DIFFUSER_EFFECT.counts(), cl_rear=-0.04)
+                     counts=ctx.effect().counts(), cl_rear=-0.04)
     if edge.beyond:
-        return minor("the diffuser angle is close to separation", **edge.shown(), counts=DIFFUSER_EDGE_EFFECT.counts())
+        return minor("the diffuser angle is close to separation", **edge.shown(), counts=ctx.effect("edge").counts())
     return passed("the diffuser angle is in the attached range", **edge.shown(margin=False))
-
-
-EXPOSED_EFFECT = Effect(2, 5, "{low}-{high} counts per exposed part (exhaust, tow eye, links); from memory",
-                        "from memory")
 
 
 @rule("underbody.diffuser-exposed", "Parts standing in the diffuser flow", "warning",
       needs=("underbody.diffuser_exposed_parts",),
-      sources=(EXPOSED_EFFECT, COOPER))
+      sources=(Effect(2, 5, "{low}-{high} counts per exposed part (exhaust, tow eye, links); from memory",
+                      "from memory"), COOPER))
 def diffuser_exposed(sheet, ctx):
     """
     What it checks: the number of parts (exhaust, tow eye, suspension links, spare-wheel
@@ -140,18 +132,15 @@ def diffuser_exposed(sheet, ctx):
     parts = int(round(sheet.get("underbody.diffuser_exposed_parts")))
     if parts > 0:
         return major(f"{parts} part(s) stand in the diffuser flow", measured=str(parts), limit="0",
-                     counts=EXPOSED_EFFECT.counts(parts), cl_rear=-0.01 * parts)
+                     counts=ctx.effect().counts(parts), cl_rear=-0.01 * parts)
     return passed("the diffuser is clean", measured="0", limit="0")
-
-
-PITCH_EFFECT = Effect(2, 6, "{low}-{high} counts and about 0.02 more front lift per degree nose-up; from memory",
-                      "from memory")
 
 
 @rule("underbody.pitch", "Underbody pitch (nose-up raises front lift)", "advisory",
       needs=("underbody.pitch",),
       thresholds=(Threshold("nose_up", "-0.5 deg", "deg", "pitch below which the underbody opens to the flow", COMMON),),
-      sources=(COMMON, PITCH_EFFECT),
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts and about 0.02 more front lift per degree nose-up; from "
+                              "memory", "from memory")),
       sensitivity=Sensitivity("underbody.pitch", -4.0, "deg", (-2, 1), "nose_up", Source(
           "the middle of 2-6 counts per deg nose-up (pitch is positive nose-down)", "from memory")))
 def pitch(sheet, ctx):
@@ -173,15 +162,9 @@ def pitch(sheet, ctx):
     angle = sheet.get("underbody.pitch")
     shown = {"measured": DEG(angle, 1, signed=True), "limit": f">= {DEG(ctx['nose_up'], 1, signed=True)}"}
     if angle < ctx["nose_up"]:
-        return minor("the underbody is pitched nose-up", **shown, counts=PITCH_EFFECT.counts(),
+        return minor("the underbody is pitched nose-up", **shown, counts=ctx.effect().counts(),
                      cl_front=-0.02 * abs(math.degrees(angle)))
     return passed("the underbody pitch is level or nose-down", **shown)
-
-
-AREA_RATIO_EFFECT = Effect(3, 10, "{low}-{high} counts and part of the rear downforce for an over-expanded "
-                           "diffuser; recalled, not checked", "from memory")
-LOW_RATIO_EFFECT = Effect(1, 4, "{low}-{high} counts for a diffuser that expands the flow too little; recalled, not "
-                          "checked", "from memory")
 
 
 @rule("underbody.diffuser-area-ratio", "Diffuser area ratio (length with ground clearance)", "warning",
@@ -190,7 +173,11 @@ LOW_RATIO_EFFECT = Effect(1, 4, "{low}-{high} counts for a diffuser that expands
                             COOPER),
                   Threshold("separation", "2.2", "", "exit / inlet height above which the diffuser flow separates",
                             COOPER)),
-      sources=(COOPER, AREA_RATIO_EFFECT, LOW_RATIO_EFFECT))
+      sources=(COOPER,
+               Effect(3, 10, "{low}-{high} counts and part of the rear downforce for an over-expanded diffuser; "
+                      "recalled, not checked", "from memory"),
+               Effect(1, 4, "{low}-{high} counts for a diffuser that expands the flow too little; recalled, not "
+                      "checked", "from memory", name="low_ratio")))
 def diffuser_area_ratio(sheet, ctx):
     """
     What it checks: the diffuser's area ratio, its exit height over its inlet height:
@@ -219,22 +206,20 @@ def diffuser_area_ratio(sheet, ctx):
     limit = f"{ctx['useful']:.1f}-{ctx['separation']:.1f}"
     if ratio > ctx["separation"]:
         return major("the diffuser expands the underbody flow more than it can follow", measured=measured,
-                     limit=limit, margin=f"{ratio - ctx['separation']:+.2f}", counts=AREA_RATIO_EFFECT.counts(),
+                     limit=limit, margin=f"{ratio - ctx['separation']:+.2f}", counts=ctx.effect().counts(),
                      cl_rear=-0.03)
     if ratio < ctx["useful"]:
         return minor("the diffuser expands the flow too little to recover much pressure", measured=measured,
-                     limit=limit, margin=f"{ratio - ctx['useful']:+.2f}", counts=LOW_RATIO_EFFECT.counts(), cl_rear=-0.01)
+                     limit=limit, margin=f"{ratio - ctx['useful']:+.2f}", counts=ctx.effect("low_ratio").counts(),
+                     cl_rear=-0.01)
     return passed("the diffuser area ratio is in the useful range", measured=measured, limit=limit)
-
-
-END_STEP_EFFECT = Effect(1, 5, "{low}-{high} counts; recalled, not checked", "from memory")
 
 
 @rule("underbody.diffuser-end-step", "Step from the diffuser end to the base", "advisory",
       needs=("underbody.diffuser_end_step",),
       thresholds=(Threshold("step", "30 mm", "mm", "step height above which the diffuser ends in a base pocket",
                             COMMON),),
-      sources=(COMMON, END_STEP_EFFECT))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts; recalled, not checked", "from memory")))
 def diffuser_end_step(sheet, ctx):
     """
     What it checks: the vertical step from the diffuser's trailing edge up to the lower edge
@@ -256,20 +241,18 @@ def diffuser_end_step(sheet, ctx):
     step = Reading(sheet.get("underbody.diffuser_end_step"), MM, at_most=ctx["step"])
     if step.beyond:
         return minor("the diffuser ends below a tall step: a low-pressure pocket on the bumper", **step.shown(),
-                     counts=END_STEP_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("the diffuser runs out into the base edge", **step.shown(margin=False))
-
-
-RAKE_EFFECT = Effect(1, 4, "{low}-{high} counts and 0.01-0.03 of front lift; recalled, not checked", "from memory")
-STEEP_RAKE_EFFECT = Effect(1, 3, "{low}-{high} counts for a rake steep enough to separate; recalled, not checked",
-                           "from memory")
 
 
 @rule("underbody.nose-rake", "Front underbody rake ahead of the front axle", "advisory",
       needs=("underbody.nose_rake",),
       thresholds=(Threshold("minimum", "1 deg", "deg", "rake below which the nose scoops air under the car", COMMON),
                   Threshold("maximum", "12 deg", "deg", "rake above which the flow separates under the nose", COMMON)),
-      sources=(COMMON, RAKE_EFFECT, STEEP_RAKE_EFFECT))
+      sources=(COMMON,
+               Effect(1, 4, "{low}-{high} counts and 0.01-0.03 of front lift; recalled, not checked", "from memory"),
+               Effect(1, 3, "{low}-{high} counts for a rake steep enough to separate; recalled, not checked",
+                      "from memory", name="steep")))
 def nose_rake(sheet, ctx):
     """
     What it checks: the upward inclination of the front underbody between the air dam and
@@ -292,8 +275,8 @@ def nose_rake(sheet, ctx):
     measured = DEG(rake.value, 1, signed=True)
     if rake.below:
         return minor("the front underbody does not rise toward the nose: more front lift", **rake.shown(measured),
-                     counts=RAKE_EFFECT.counts(), cl_front=-0.02)
+                     counts=ctx.effect().counts(), cl_front=-0.02)
     if rake.above:
         return minor("the front underbody rises steeply: the flow separates behind the air dam",
-                     **rake.shown(measured), counts=STEEP_RAKE_EFFECT.counts())
+                     **rake.shown(measured), counts=ctx.effect("steep").counts())
     return passed("the front underbody rake is in the useful range", **rake.shown(measured, margin=False))

@@ -14,8 +14,6 @@ WASCHLE = Source("Waschle, 'The influence of rotating wheels on vehicle aerodyna
                  "investigations', SAE 2007-01-0107 (title/author/year/venue and abstract checked on the SAE page): "
                  "several rim geometries compared, rotating and stationary", "published")
 REFERENCE_RIM = 18 * 0.0254  # m: the rim size the counts per openness were recalled for (from memory)
-RIM_EFFECT = Effect(3, 6, "about {low}-{high} counts per 10 % of openness closed on 18 inch rims, scaled with the rim "
-                    "disc area; recalled, not checked", "from memory")
 
 
 @rule("wheels.rim-openness", "Rim openness", "warning",
@@ -23,7 +21,9 @@ RIM_EFFECT = Effect(3, 6, "about {low}-{high} counts per 10 % of openness closed
       thresholds=(Threshold("open", "35 %", "%", "open share above which the rims pump air", WHEEL_SOURCE),
                   Threshold("closed", "20 %", "%", "open share a low-drag rim reaches", WHEEL_SOURCE)),
       optional=("wheels.rim_diameter",),
-      sources=(WHEEL_SOURCE, WASCHLE, RIM_EFFECT),
+      sources=(WHEEL_SOURCE, WASCHLE, Effect(3, 6, "about {low}-{high} counts per 10 % of openness closed on 18 inch "
+                                             "rims, scaled with the rim disc area; recalled, not checked",
+                                             "from memory")),
       sensitivity=Sensitivity("wheels.rim_openness", 0.45, "%", (10, 60), "closed", Source(
           "the middle of about 3-6 counts per 10 % of openness", "from memory")))
 def rim_openness(sheet, ctx):
@@ -54,23 +54,20 @@ def rim_openness(sheet, ctx):
     pumping, closed = Reading(openness, PERCENT, at_most=ctx["open"]), Reading(openness, PERCENT, at_most=ctx["closed"])
     if pumping.beyond:
         return major("the rims are open: they pump wheelhouse air into the side flow", **pumping.shown(measured),
-                     counts=RIM_EFFECT.counts(closable / 0.1))
+                     counts=ctx.effect().counts(closable / 0.1))
     if closed.beyond:
         return minor("the rims could be closed further", **closed.shown(measured, margin=False),
-                     counts=RIM_EFFECT.counts(closable / 0.1))
+                     counts=ctx.effect().counts(closable / 0.1))
     return passed("the rims are closed", **closed.shown(measured, margin=False))
-
-
-DEFLECTOR_EFFECT = Effect(2, 8, "{low}-{high} counts; from memory (Hucho 1998, wheel spoilers)", "from memory")
-TALL_DEFLECTOR_EFFECT = Effect(1, 4, "{low}-{high} counts for a deflector above the maximum height (its own drag); from "
-                               "memory", "from memory")
 
 
 @rule("wheels.front-deflector", "Deflectors ahead of the front tyres", "advisory",
       needs=("wheels.front_deflector_height",),
       thresholds=(Threshold("minimum", "15 mm", "mm", "height below which the deflector does little", COMMON),
                   Threshold("maximum", "70 mm", "mm", "height above which its own drag dominates", COMMON)),
-      sources=(COMMON, DEFLECTOR_EFFECT, TALL_DEFLECTOR_EFFECT))
+      sources=(COMMON, Effect(2, 8, "{low}-{high} counts; from memory (Hucho 1998, wheel spoilers)", "from memory"),
+               Effect(1, 4, "{low}-{high} counts for a deflector above the maximum height (its own drag); from memory",
+                      "from memory", name="tall")))
 def front_deflector(sheet, ctx):
     """
     What it checks: the height of the deflector (tyre spat) ahead of each front tyre.
@@ -91,19 +88,16 @@ def front_deflector(sheet, ctx):
     height = Reading(sheet.get("wheels.front_deflector_height"), MM, at_least=ctx["minimum"], at_most=ctx["maximum"])
     if height.below:
         return minor("no effective deflectors ahead of the front tyres", **height.shown(margin=False),
-                     counts=DEFLECTOR_EFFECT.counts())
+                     counts=ctx.effect().counts())
     if height.above:
         return minor("the front deflectors are tall enough to add drag of their own", **height.shown(margin=False),
-                     counts=TALL_DEFLECTOR_EFFECT.counts())
+                     counts=ctx.effect("tall").counts())
     return passed("the front tyre deflectors are in the useful range", **height.shown(margin=False))
-
-
-STRAKE_EFFECT = Effect(2, 6, "{low}-{high} counts; from memory", "from memory")
 
 
 @rule("wheels.rear-strakes", "Strakes ahead of the rear wheels", "advisory",
       needs=("wheels.rear_strakes",),
-      sources=(COMMON, STRAKE_EFFECT))
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts; from memory", "from memory")))
 def rear_strakes(sheet, ctx):
     """
     What it checks: whether strakes or spats stand ahead of the rear tyres.
@@ -122,16 +116,13 @@ def rear_strakes(sheet, ctx):
     """
     if sheet.get("wheels.rear_strakes"):
         return passed("rear strakes are fitted", measured="fitted")
-    return minor("no strakes ahead of the rear tyres", measured="none", limit="fitted", counts=STRAKE_EFFECT.counts())
-
-
-GAP_EFFECT = Effect(2, 8, "{low}-{high} counts; from memory", "from memory")
+    return minor("no strakes ahead of the rear tyres", measured="none", limit="fitted", counts=ctx.effect().counts())
 
 
 @rule("wheels.wheelhouse-gap", "Gap between tyre and wheel arch", "advisory",
       needs=("wheels.wheelhouse_gap",),
       thresholds=(Threshold("gap", "50 mm", "mm", "gap above which the wheelhouse volume pumps air", COMMON),),
-      sources=(COMMON, GAP_EFFECT))
+      sources=(COMMON, Effect(2, 8, "{low}-{high} counts; from memory", "from memory")))
 def wheelhouse_gap(sheet, ctx):
     """
     What it checks: the radial gap between the tyre and the arch lip at the top.
@@ -150,16 +141,13 @@ def wheelhouse_gap(sheet, ctx):
     """
     gap = Reading(sheet.get("wheels.wheelhouse_gap"), MM, at_most=ctx["gap"])
     if gap.beyond:
-        return minor("the wheelhouse gap is large", **gap.shown(margin=False), counts=GAP_EFFECT.counts())
+        return minor("the wheelhouse gap is large", **gap.shown(margin=False), counts=ctx.effect().counts())
     return passed("the wheelhouse is tight", **gap.shown(margin=False))
-
-
-VENT_EFFECT = Effect(2, 5, "{low}-{high} counts; from memory (production air breathers)", "from memory")
 
 
 @rule("wheels.wheelhouse-vent", "Front wheelhouse vented to the side", "advisory",
       needs=("wheels.wheelhouse_vented",),
-      sources=(VENT_EFFECT,))
+      sources=(Effect(2, 5, "{low}-{high} counts; from memory (production air breathers)", "from memory"),))
 def wheelhouse_vent(sheet, ctx):
     """
     What it checks: whether the front wheelhouse is vented to the body side behind the arch
@@ -181,17 +169,14 @@ def wheelhouse_vent(sheet, ctx):
     if sheet.get("wheels.wheelhouse_vented"):
         return passed("the front wheelhouse is vented", measured="vented")
     return minor("the front wheelhouse has no outlet behind the wheel", measured="closed", limit="vented",
-                 counts=VENT_EFFECT.counts())
-
-
-ARCH_EXIT_EFFECT = Effect(2, 6, "{low}-{high} counts; from memory", "from memory")
+                 counts=ctx.effect().counts())
 
 
 @rule("wheels.rear-arch-exit", "Rear wheel arch trailing edge", "warning",
       needs=("wheels.rear_arch_exit_radius",),
       thresholds=(Threshold("radius", "10 mm", "mm", "trailing-edge radius above which wheelhouse air is drawn "
                                                    "along the side", COMMON),),
-      sources=(COMMON, ARCH_EXIT_EFFECT))
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts; from memory", "from memory")))
 def rear_arch_exit(sheet, ctx):
     """
     What it checks: the radius of the trailing edge of the rear wheel arch, where the
@@ -212,7 +197,7 @@ def rear_arch_exit(sheet, ctx):
     """
     radius = Reading(sheet.get("wheels.rear_arch_exit_radius"), MM, at_most=ctx["radius"])
     if radius.beyond:
-        return major("the rear arch trailing edge is rounded", **radius.shown(), counts=ARCH_EXIT_EFFECT.counts())
+        return major("the rear arch trailing edge is rounded", **radius.shown(), counts=ctx.effect().counts())
     return passed("the rear arch trailing edge is sharp", **radius.shown(margin=False))
 
 
@@ -255,18 +240,15 @@ def tyre_width(sheet, ctx):
         excess_mm = (share - ctx["share"]) * sheet.get("dimensions.width") * 1000
         scale = 0.5 if treated else 1.0
         return minor("the tyres are wide for the car: wider wheel wakes", **reading.shown(measured),
-                     counts=TYRE_EFFECT.counts(excess_mm / 10 * scale))
+                     counts=ctx.effect().counts(excess_mm / 10 * scale))
     return passed("the tyre width suits the car", **reading.shown(measured, margin=False))
-
-
-SHOULDER_EFFECT = Effect(1, 4, "{low}-{high} counts; recalled, not checked", "from memory")
 
 
 @rule("wheels.tyre-shoulder", "Tyre shoulder shape", "advisory",
       needs=("wheels.tyre_shoulder",),
       sources=(Source("rounded tyre shoulders and smooth sidewalls lower wheel drag by a few counts against square "
                       "shoulders; recalled, not checked", "from memory"),
-               SHOULDER_EFFECT))
+               Effect(1, 4, "{low}-{high} counts; recalled, not checked", "from memory")))
 def tyre_shoulder(sheet, ctx):
     """
     What it checks: whether the tyres fitted have rounded or square shoulders (the
@@ -289,5 +271,5 @@ def tyre_shoulder(sheet, ctx):
     shoulder = sheet.get("wheels.tyre_shoulder")
     if shoulder == "square":
         return minor("square tyre shoulders widen the tyre wake", measured=shoulder, limit="rounded",
-                     counts=SHOULDER_EFFECT.counts())
+                     counts=ctx.effect().counts())
     return passed("the tyre shoulders are rounded", measured=shoulder, limit="rounded")

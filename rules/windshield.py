@@ -8,10 +8,6 @@ from aeroreview.display import DEG, MM, Reading
 from aeroreview.rules import COMMON, HUCHO, Effect, Sensitivity, Source, Threshold, major, minor, passed, rule
 
 
-ANGLE_EFFECT = Effect(0.7, 1.3, "{low}-{high} counts per degree above the steep limit (about 1 count per degree "
-                      "above 33 deg), from memory", "from memory")
-
-
 @rule("windshield.angle", "Windshield inclination", "warning",
       needs=("windshield.angle",),
       thresholds=(Threshold("upright", "40 deg", "deg", "inclination from horizontal above which the screen is upright",
@@ -19,7 +15,8 @@ ANGLE_EFFECT = Effect(0.7, 1.3, "{low}-{high} counts per degree above the steep 
                   Threshold("steep", "33 deg", "deg", "inclination from horizontal above which gains remain", HUCHO)),
       sources=(Source("Hucho 1998 (chapter not checked): drag falls as the windshield is laid back to about 30 deg "
                       "from horizontal (60 deg rake), with little gain beyond; recalled, not checked", "from memory"),
-               ANGLE_EFFECT),
+               Effect(0.7, 1.3, "{low}-{high} counts per degree above the steep limit (about 1 count per degree "
+                      "above 33 deg), from memory", "from memory")),
       applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"),
       sensitivity=Sensitivity("windshield.angle", 1.0, "deg", (30, 50), "steep", Source(
           "about 1 count per degree above 33 deg (Hucho 1998, chapter not checked, recalled)", "from memory")))
@@ -49,24 +46,22 @@ def windshield_angle(sheet, ctx):
     over = math.degrees(angle) - math.degrees(ctx["steep"])
     if upright.beyond:
         return major("the windshield is upright; laying it back is a large gain", **upright.shown(measured),
-                     counts=ANGLE_EFFECT.counts(over))
+                     counts=ctx.effect().counts(over))
     if steep.beyond:
         return minor("the windshield is steeper than the usual optimum", **steep.shown(measured),
-                     counts=ANGLE_EFFECT.counts(over))
+                     counts=ctx.effect().counts(over))
     return passed("the windshield is laid back", **steep.shown(measured, margin=False))
-
-
-PILLAR_EFFECT = Effect(2, 8, "{low}-{high} counts, and wind noise; from memory (Hucho 1998, A-pillar vortex, "
-                       "chapter not checked)", "from memory")
-PILLAR_MARGIN_EFFECT = Effect(1, 3, "{low}-{high} counts for a radius between the sharp and the comfortable limit; from "
-                              "memory", "from memory")
 
 
 @rule("windshield.a-pillar-radius", "A-pillar edge radius", "warning",
       needs=("windshield.a_pillar_radius",),
       thresholds=(Threshold("sharp", "15 mm", "mm", "radius below which the pillar flow separates", COMMON),
                   Threshold("comfortable", "25 mm", "mm", "radius with margin at yaw", COMMON)),
-      sources=(COMMON, PILLAR_EFFECT, PILLAR_MARGIN_EFFECT))
+      sources=(COMMON,
+               Effect(2, 8, "{low}-{high} counts, and wind noise; from memory (Hucho 1998, A-pillar vortex, chapter "
+                      "not checked)", "from memory"),
+               Effect(1, 3, "{low}-{high} counts for a radius between the sharp and the comfortable limit; from memory",
+                      "from memory", name="margin")))
 def a_pillar_radius(sheet, ctx):
     """
     What it checks: the radius of the A-pillar edge between the windshield and the side glass.
@@ -89,20 +84,17 @@ def a_pillar_radius(sheet, ctx):
     comfortable = Reading(radius, MM, at_least=ctx["comfortable"])
     if sharp.beyond:
         return major("the A-pillar is sharp: strong pillar vortex, drag and wind noise", **sharp.shown(),
-                     counts=PILLAR_EFFECT.counts())
+                     counts=ctx.effect().counts())
     if comfortable.beyond:
         return minor("the A-pillar radius leaves little margin at yaw", **comfortable.shown(margin=False),
-                     counts=PILLAR_MARGIN_EFFECT.counts())
+                     counts=ctx.effect("margin").counts())
     return passed("the A-pillar is well rounded", **comfortable.shown(margin=False))
-
-
-STEP_EFFECT = Effect(1, 5, "{low}-{high} counts; from memory", "from memory")
 
 
 @rule("windshield.a-pillar-step", "Step from windshield to A-pillar trim", "warning",
       needs=("windshield.a_pillar_step",),
       thresholds=(Threshold("step", "6 mm", "mm", "step height above which the pillar acts as a fence", COMMON),),
-      sources=(COMMON, STEP_EFFECT))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts; from memory", "from memory")))
 def a_pillar_step(sheet, ctx):
     """
     What it checks: the height of the step from the windshield surface to the A-pillar
@@ -122,17 +114,14 @@ def a_pillar_step(sheet, ctx):
     """
     step = Reading(sheet.get("windshield.a_pillar_step"), MM, at_most=ctx["step"], places=1)
     if step.beyond:
-        return major("the A-pillar step is deep enough to trip the flow", **step.shown(), counts=STEP_EFFECT.counts())
+        return major("the A-pillar step is deep enough to trip the flow", **step.shown(), counts=ctx.effect().counts())
     return passed("the glazing is flush enough", **step.shown(margin=False))
-
-
-HEADER_EFFECT = Effect(1, 5, "{low}-{high} counts; from memory", "from memory")
 
 
 @rule("windshield.header-radius", "Windshield header radius", "advisory",
       needs=("windshield.header_radius",),
       thresholds=(Threshold("radius", "60 mm", "mm", "header radius below which the roof flow may separate", COMMON),),
-      sources=(COMMON, HEADER_EFFECT))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts; from memory", "from memory")))
 def header_radius(sheet, ctx):
     """
     What it checks: the radius of the windshield-to-roof transition (the header).
@@ -150,16 +139,13 @@ def header_radius(sheet, ctx):
     """
     radius = Reading(sheet.get("windshield.header_radius"), MM, at_least=ctx["radius"])
     if radius.beyond:
-        return minor("the header radius is tight", **radius.shown(margin=False), counts=HEADER_EFFECT.counts())
+        return minor("the header radius is tight", **radius.shown(margin=False), counts=ctx.effect().counts())
     return passed("the header radius is generous", **radius.shown(margin=False))
-
-
-WIPER_EFFECT = Effect(1, 3, "{low}-{high} counts; from memory", "from memory")
 
 
 @rule("windshield.wipers", "Wipers parked out of the flow", "advisory",
       needs=("windshield.wipers_concealed",),
-      sources=(WIPER_EFFECT,))
+      sources=(Effect(1, 3, "{low}-{high} counts; from memory", "from memory"),))
 def wipers(sheet, ctx):
     """
     What it checks: whether the parked wipers sit below the hood trailing edge.
@@ -178,4 +164,4 @@ def wipers(sheet, ctx):
     if sheet.get("windshield.wipers_concealed"):
         return passed("the wipers are concealed", measured="concealed")
     return minor("the parked wipers stand in the flow", measured="exposed", limit="concealed",
-                 counts=WIPER_EFFECT.counts())
+                 counts=ctx.effect().counts())

@@ -16,12 +16,13 @@ from pathlib import Path
 
 import pytest
 
-from aeroreview.rules import Effect, all_rules
+from aeroreview.rules import Context, Effect, all_rules, rule
 from test_rule_examples import EXAMPLES, sheet_with
 
 RULES = Path(__file__).resolve().parents[1] / "rules"
 ZONE_MODULES = sorted(path for path in RULES.glob("*.py") if path.name != "__init__.py")
-HOW = "declare the range once as an Effect(low, high, '{low}-{high} counts; ...', kind) and cost it with EFFECT.counts()"
+HOW = ("declare the range once in the rule's sources as Effect(low, high, '{low}-{high} counts; ...', kind) and cost "
+       "it with ctx.effect().counts()")
 
 
 def _calls(path: Path):
@@ -71,6 +72,23 @@ def test_an_effect_shows_its_range_in_its_text():
 def test_a_malformed_effect_is_refused(text, low, high):
     with pytest.raises(ValueError):
         Effect(low, high, text, "from memory")
+
+
+def test_a_rule_reads_its_effects_by_name_from_its_context():
+    rules = all_rules()
+    spoiler = rules["rear.spoiler"]
+    assert sorted(spoiler.effects) == ["effect", "tall"]
+    context = Context({}, 36.1, 1.2, 1.5e-5, spoiler.effects)
+    assert context.effect("tall") is spoiler.effects["tall"]
+    with pytest.raises(KeyError, match="no effect named 'short'"):
+        context.effect("short")
+
+
+def test_two_effects_of_one_rule_need_two_names():
+    with pytest.raises(ValueError, match="two effects share a name"):
+        rule("sides.test-only-duplicate", "t", "advisory",
+             sources=(Effect(1, 2, "{low}-{high} counts", "from memory"),
+                      Effect(2, 3, "{low}-{high} counts", "from memory")))(lambda sheet, ctx: None)
 
 
 FAILING = [(rule_id, fragment) for rule_id, status, fragment in EXAMPLES if status != "pass"]

@@ -56,7 +56,8 @@ def test_every_threshold_at_either_end_of_its_range_runs_without_raising():
     crashed = []
     for rule, threshold, end in ENDS:
         value = to_si(f"{end!r} {threshold.unit}".strip(), threshold.unit)
-        context = Context({**rule.defaults(), threshold.name: value}, 130 / 3.6, air.density, air.kinematic_viscosity)
+        context = Context({**rule.defaults(), threshold.name: value}, 130 / 3.6, air.density, air.kinematic_viscosity,
+                          rule.effects)
         for sheet in sheets:
             if not rule.applies(sheet):
                 continue
