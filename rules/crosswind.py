@@ -187,7 +187,7 @@ def yaw_drag_rise(sheet, ctx):
 def wind_averaged_drag(sheet, ctx):
     """
     What it checks: the SAE J1252 wind-averaged drag coefficient (a 7 mph wind from every
-    direction with equal weight) against the zero-yaw Cd, at 100 km/h.
+    direction with equal weight) against the zero-yaw Cd, at {speed}.
 
     Why it matters: the wind-averaged figure is what the car meets on average on the road;
     where it is much higher than the zero-yaw figure, the car's drag is yaw-sensitive and

@@ -270,7 +270,7 @@ def splitter(sheet, ctx):
     front lift; a long one collects stagnation pressure on its top face (downforce, but also
     drag) and is the first part to meet kerbs and ramps.
 
-    How to fix: keep the overhang within 60 mm on a road car, or support a longer one and
+    How to fix: keep the overhang within {maximum} on a road car, or support a longer one and
     weigh its drag against the front-lift target.
 
     Known limits: the right length depends on the front-lift balance; the rule only flags

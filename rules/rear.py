@@ -155,8 +155,8 @@ def side_taper(sheet, ctx):
     pressure; drag falls with taper angle up to about 15 deg. Steeper than that, the flow
     cannot follow the surface, separates at the start of the taper, and the gain is lost.
 
-    How to fix: taper the rear quarters and lamps by 5-15 deg over the last 300 mm or more,
-    ending in a sharp separation edge; above 16 deg, flatten the taper or shorten it and add
+    How to fix: taper the rear quarters and lamps by {useful} to about 15 deg over the last 300 mm
+    or more, ending in a sharp separation edge; above {separation}, flatten the taper or shorten it and add
     an edge where it begins.
 
     Known limits: one angle describes the taper; its length and the curvature where it
@@ -208,7 +208,7 @@ def separation_edge(sheet, ctx):
     Why it matters: a rounded rear edge lets the flow wrap around it; the separation line
     then moves with speed and yaw, the wake grows and the base pressure falls.
 
-    How to fix: make the rear edges sharp (radius under 5-10 mm) along the whole perimeter
+    How to fix: make the rear edges sharp (radius {radius} or less) along the whole perimeter
     of the base; lamp and bumper parting lines can carry the edge.
 
     Known limits: one radius for the whole perimeter; a locally rounded corner matters less.
@@ -238,8 +238,8 @@ def spoiler(sheet, ctx):
     Why it matters: a small kick-up at the trailing edge raises the base pressure and cuts
     rear lift; a tall spoiler produces more downforce but pays for it in drag.
 
-    How to fix: add a kick-up or spoiler lip of 10-40 mm at the decklid or roof end; above
-    80 mm, lower it unless the rear lift target demands it.
+    How to fix: add a kick-up or spoiler lip of {minimum} to about 40 mm at the decklid or roof
+    end; above {maximum}, lower it unless the rear lift target demands it.
 
     Known limits: the best height depends on the backlight and decklid; check rear lift
     and stability before and after any change.

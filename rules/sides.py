@@ -31,7 +31,7 @@ def mirror_area(sheet, ctx):
     trailing edge and a tapered base, or replace the mirrors with cameras where the local
     regulations allow it.
 
-    Vans and pickups are allowed larger mirrors (2.5 % of A): their width and trailers need
+    Vans and pickups are allowed larger mirrors ({share_large} of A): their width and trailers need
     the field of view, and the regulations set its minimum.
 
     Known limits: the interference with the A-pillar vortex can add or remove drag beyond
@@ -68,7 +68,7 @@ def mirror_gap(sheet, ctx):
     Why it matters: a narrow gap forms a channel where the mirror's and the pillar's flows
     interfere: local separation, drag and wind noise.
 
-    How to fix: widen the gap to 45 mm or more, or close it fully with a shaped stalk.
+    How to fix: widen the gap to {gap} or more, or close it fully with a shaped stalk.
 
     Known limits: mirrors mounted on the door skin below the glass line are judged by the
     same number, which is a simplification.
@@ -123,7 +123,7 @@ def sill_step(sheet, ctx):
     underbody with disturbed air; a side skirt that continues the door line keeps the two
     flows apart.
 
-    How to fix: bring the sill or side skirt out to within 15 mm of the door skin line.
+    How to fix: bring the sill or side skirt out to within {step} of the door skin line.
 
     Known limits: styling often wants the shadow line; the drag effect is small.
 
@@ -150,7 +150,7 @@ def panel_gap(sheet, ctx):
     boundary layer, let air in and out of the door cavities and add wind noise and a little
     drag.
 
-    How to fix: tighten the nominal gap (5 mm or less) or seal the gaps behind the skin with
+    How to fix: tighten the nominal gap ({gap} or less) or seal the gaps behind the skin with
     flush seals at the leading edges.
 
     Known limits: the drag effect is small; a sealed wide gap costs less than an open narrow one.

@@ -109,7 +109,7 @@ def rear_lift(sheet, ctx):
     backlight clear of the critical region, and a closed underbody; check the balance with
     the front. Confirm every change at speed on a proving ground.
 
-    The limits know the vehicle: a car faster than 250 km/h, or a sports car, is held to two
+    The limits know the vehicle: a car faster than {fast}, or a sports car, is held to two
     thirds of the usual shares, since the margin it needs grows with speed.
 
     Known limits: static coefficients at zero yaw; rear lift usually rises with yaw, and
@@ -140,7 +140,7 @@ def front_lift(sheet, ctx):
     Confirm at speed on a proving ground.
 
     Known limits: as for rear lift: zero yaw, static ride height, coefficients from the sheet;
-    the same tighter limits apply above 250 km/h and to sports cars.
+    the same tighter limits apply above {fast} and to sports cars.
 
     Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
         fails (warning): {results: [{kind: cfd, label: test, speed: 140 km/h, cd: 0.25, cl_front: 0.25, cl_rear: 0.0}]}

@@ -43,7 +43,7 @@ def panel_coverage(sheet, ctx):
     openings only where cooling or service needs them; seal the gaps between panels.
 
     An electric vehicle's battery pack forms a flat floor between the axles, so its target
-    is higher (90 %).
+    is higher ({battery_target}).
 
     Known limits: coverage alone does not say how smooth the panels are or how they end;
     the battery floor is assumed for every electric vehicle.
@@ -87,7 +87,7 @@ def diffuser_angle(sheet, ctx):
     it; steeper, it separates, and the diffuser turns into a base with more drag and
     more lift than a moderate one.
 
-    How to fix: keep the diffuser angle at 5-10 deg, lengthen it rather than steepen it,
+    How to fix: keep the diffuser angle between about 5 deg and {edge}, lengthen it rather than steepen it,
     and add side fences or strakes where a steeper angle is unavoidable.
 
     Known limits: wheel wakes and exposed parts in the diffuser move the separation angle;

@@ -36,7 +36,7 @@ def rim_openness(sheet, ctx):
     the wheel at twice the vehicle speed. Closing the rim is one of the largest single
     gains on a modern car.
 
-    How to fix: close the rim face to 20 % or less with flat spokes or an aero insert,
+    How to fix: close the rim face to {closed} or less with flat spokes or an aero insert,
     keeping enough opening for brake cooling (check with the brake team).
 
     Known limits: the spoke shape and the rim's outer lip matter beside the open share;
@@ -186,7 +186,7 @@ def rear_arch_exit(sheet, ctx):
     rounded one draws it along the rear quarter into the wake's edge, widening the wake and
     disturbing the side taper.
 
-    How to fix: sharpen the trailing edge of the rear arch (10 mm radius or less), or add a
+    How to fix: sharpen the trailing edge of the rear arch ({radius} radius or less), or add a
     small lip.
 
     Known limits: one radius; the arch liner shape behind it matters too.

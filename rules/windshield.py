@@ -70,7 +70,7 @@ def a_pillar_radius(sheet, ctx):
     adds drag, raises wind noise and soils the side glass. At yaw the leeward pillar
     separates first.
 
-    How to fix: increase the pillar radius (25 mm or more), or shape the glass and the
+    How to fix: increase the pillar radius ({comfortable} or more), or shape the glass and the
     pillar trim so that the transition is continuous.
 
     Known limits: one radius at mid height; drag is less sensitive than wind noise here.
@@ -104,7 +104,7 @@ def a_pillar_step(sheet, ctx):
     vortex; it adds drag and is a leading source of wind noise.
 
     How to fix: bring the glass flush with the pillar (flush glazing), or keep the gutter
-    below 6 mm and round its edge.
+    below {step} and round its edge.
 
     Known limits: water management may need a gutter; the rule does not weigh that.
 
@@ -129,7 +129,7 @@ def header_radius(sheet, ctx):
     Why it matters: the flow accelerates strongly over the header; a tight radius can
     separate it, thickening the boundary layer that reaches the rear of the roof.
 
-    How to fix: soften the header radius (60 mm or more), or lay the windshield back.
+    How to fix: soften the header radius ({radius} or more), or lay the windshield back.
 
     Known limits: a small radius may still hold attached flow on a well laid-back screen.
 
