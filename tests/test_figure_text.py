@@ -24,3 +24,16 @@ def test_math_syntax_in_sheet_text_is_drawn_literally(tmp_path):
     figures = [unescape(p.read_text(encoding="utf-8")) for p in (tmp_path / "out").rglob("*.svg")]
     assert any(r"Price $\foo$ tag $x^2$: revision trends" in svg for svg in figures)  # title, as typed
     assert any(r"Yaw sweep: $\frac{a}{b}$ steady RANS" in svg for svg in figures)
+
+
+def test_study_column_text_in_the_calibration_chart_is_escaped_and_literal():
+    """A study table's column name reaches the calibration chart; the SVG must stay well-formed XML
+    (W3C SVG 1.1 is an XML language, so ElementTree must parse it) and show the name as typed."""
+    from xml.etree import ElementTree
+
+    from aeroreview.site import fitcharts
+
+    label = "gap <5 mm & $x^2$ [per mm]"
+    svg = fitcharts.calibration_slopes({"slopes": [{"label": label, "fit": 1.2, "ci95": [0.4, 2.0], "library": None}]})
+    texts = [t.text for t in ElementTree.fromstring(svg).iter("{http://www.w3.org/2000/svg}text")]
+    assert label in texts and "library silent" in texts

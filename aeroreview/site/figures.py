@@ -1,9 +1,9 @@
 """Figures for the review site: SVG, deterministic, colour-blind safe, cached, drawn in parallel.
 
-Every figure is a pure function of a small JSON-able ``data`` mapping. The simple charts are
-written as SVG directly (:mod:`aeroreview.site.charts`); the few with equal-aspect geometry,
-error bars or scatter are drawn by matplotlib (:mod:`aeroreview.site.plots`, imported only when
-one is drawn). :class:`FigureCache` stores the SVG under a hash of (figure kind, data, figure
+Every figure is a pure function of a small JSON-able ``data`` mapping. The charts are written
+as SVG directly (:mod:`aeroreview.site.charts`, :mod:`aeroreview.site.fitcharts`); only the
+measured surface's geometry is drawn by matplotlib (:mod:`aeroreview.site.plots`, imported only
+when one is drawn). :class:`FigureCache` stores the SVG under a hash of (figure kind, data, figure
 code version, matplotlib version, styles): a rebuild redraws only the figures whose inputs
 changed, the figures a build needs are drawn together in a process pool, cached figures no page
 uses any more are removed, and the same input always gives the same bytes (fixed SVG hash salt,
@@ -19,9 +19,9 @@ import tempfile
 from importlib.metadata import version
 from pathlib import Path
 
-from aeroreview.site import charts, svgchart
+from aeroreview.site import charts, fitcharts, svgchart
 
-FIGURE_VERSION = "3"  # bump when a drawing function changes, so cached SVGs are redrawn
+FIGURE_VERSION = "4"  # bump when a drawing function changes, so cached SVGs are redrawn
 MATPLOTLIB = version("matplotlib")  # read from the package metadata: importing matplotlib costs 0.3-0.6 s
 
 # matplotlib's settings for its figures. "text.parse_math": False draws every text literally: sheet
@@ -35,6 +35,8 @@ STYLE = {
 def _draw(kind: str, data) -> bytes:
     if kind in charts.DRAWERS:
         return charts.DRAWERS[kind](data)
+    if kind in fitcharts.DRAWERS:
+        return fitcharts.DRAWERS[kind](data)
     from aeroreview.site import plots
 
     return plots.draw(kind, data)

@@ -172,6 +172,31 @@ class Panel:
         self.layers.append(draw)
         self._entry(label, {"fill": colours[0], "alpha": 1.0, "hatch": hatch})
 
+    def scatter(self, xs, ys, colour: str, marker: str = "o", alpha: float = 1.0, label: str | None = None) -> None:
+        """Markers only, no line between them."""
+        self.x.seen += list(xs)
+        self.y.seen += list(ys)
+        self.layers.append(lambda sx, sy: "".join(_marker(marker, sx(x), sy(y), colour, alpha) for x, y in zip(xs, ys)))
+        self._entry(label, {"stroke": colour, "width": 0, "dash": False, "marker": marker, "alpha": alpha})
+
+    def errorbar(self, x: float, y: float, colour: str, xerr=None, yerr=None, marker: str = "o",
+                 label: str | None = None) -> None:
+        """A marker with its interval drawn as a line with end caps; ``xerr``/``yerr`` are the (low, high) ends."""
+        self.x.seen += [x, *(xerr or ())]
+        self.y.seen += [y, *(yerr or ())]
+        style = {"stroke": colour, "width": 1.5, "dash": False, "marker": marker}
+        def draw(sx, sy):
+            parts = []
+            if xerr:
+                parts += [_line(sx(xerr[0]), sy(y), sx(xerr[1]), sy(y), style)]
+                parts += [_line(sx(end), sy(y) - 3, sx(end), sy(y) + 3, style) for end in xerr]
+            if yerr:
+                parts += [_line(sx(x), sy(yerr[0]), sx(x), sy(yerr[1]), style)]
+                parts += [_line(sx(x) - 3, sy(end), sx(x) + 3, sy(end), style) for end in yerr]
+            return "".join(parts) + _marker(marker, sx(x), sy(y), colour)
+        self.layers.append(draw)
+        self._entry(label, style)
+
     def text(self, x: float, y: float, text: str, size: float = SIZE, anchor: str = "start", baseline: str = "middle",
              dx: float = 0, dy: float = 0, rotate: bool = False, colour: str = "#000000", axes_y: bool = False) -> None:
         """Text at data (x, y), or at data x and a fraction of the panel's height with ``axes_y``;
@@ -231,8 +256,15 @@ class Panel:
         return "".join(parts)
 
     def _legend(self) -> str:
+        """A framed legend inside the panel, one entry a row; or, with "above", one row over the panel."""
         where, size = self.legend_at
         left, top, right, bottom = self.box
+        if where == "above":
+            widths = [30 + text_width(label, size) + 8 for label, _ in self.legend_entries]
+            x = centred((left + right) / 2, sum(widths), self.canvas) - sum(widths) / 2
+            starts = [x + sum(widths[:i]) for i in range(len(widths))]
+            return "".join(_legend_entry(start, top - size, label, style, size)
+                           for start, (label, style) in zip(starts, self.legend_entries))
         row = size * 1.45
         width = 30 + max(text_width(label, size) for label, _ in self.legend_entries)
         height = row * len(self.legend_entries) + 6
@@ -240,17 +272,20 @@ class Panel:
         y = top + 6 if where.startswith("upper") else bottom - 6 - height
         parts = [f'<rect x="{_n(x)}" y="{_n(y)}" width="{_n(width)}" height="{_n(height)}" fill="#fff" '
                  'fill-opacity="0.8" stroke="#ccc" stroke-width="0.8" rx="2"/>']
-        for i, (label, style) in enumerate(self.legend_entries):
-            middle = y + 3 + row * (i + 0.5)
-            if "fill" in style:
-                parts.append(_rect(x + 6, middle - size * 0.35, 16, size * 0.7, style["fill"], style["alpha"],
-                                   style.get("hatch", False)))
-            else:
-                parts.append(_line(x + 5, middle, x + 23, middle, style))
-                if style["marker"]:
-                    parts.append(_marker(style["marker"], x + 14, middle, style["stroke"]))
-            parts.append(_text(x + 27, middle, label, size, "start", "middle"))
+        parts += [_legend_entry(x, y + 3 + row * (i + 0.5), label, style, size)
+                  for i, (label, style) in enumerate(self.legend_entries)]
         return "".join(parts)
+
+
+def _legend_entry(x: float, middle: float, label: str, style: dict, size: float) -> str:
+    """One legend entry starting at ``x``: its swatch, line or marker, then its label."""
+    if "fill" in style:
+        key = _rect(x + 6, middle - size * 0.35, 16, size * 0.7, style["fill"], style["alpha"], style.get("hatch", False))
+    else:
+        key = _line(x + 5, middle, x + 23, middle, style) if style["width"] else ""
+        if style["marker"]:
+            key += _marker(style["marker"], x + 14, middle, style["stroke"], style.get("alpha", 1.0))
+    return key + _text(x + 27, middle, label, size, "start", "middle")
 
 
 class Chart:
@@ -331,10 +366,15 @@ def _rect(x, y, width, height, colour, alpha, hatch=False) -> str:
                    if hatch else "")
 
 
-def _marker(kind: str, x: float, y: float, colour: str) -> str:
+def _marker(kind: str, x: float, y: float, colour: str, alpha: float = 1.0) -> str:
+    """A marker centred on (x, y): "o" circle, "s" square, "^" triangle, "D" diamond."""
+    fill = f'fill="{colour}"' + ("" if alpha == 1.0 else f' fill-opacity="{alpha}"')
     if kind == "s":
-        return f'<rect x="{_n(x - 2.2)}" y="{_n(y - 2.2)}" width="4.4" height="4.4" fill="{colour}"/>'
-    return f'<circle cx="{_n(x)}" cy="{_n(y)}" r="2.4" fill="{colour}"/>'
+        return f'<rect x="{_n(x - 2.2)}" y="{_n(y - 2.2)}" width="4.4" height="4.4" {fill}/>'
+    if kind in ("^", "D"):
+        points = ((0, -3.2), (2.8, 1.9), (-2.8, 1.9)) if kind == "^" else ((0, -4), (3.2, 0), (0, 4), (-3.2, 0))
+        return f'<polygon points="{" ".join(f"{_n(x + dx)},{_n(y + dy)}" for dx, dy in points)}" {fill}/>'
+    return f'<circle cx="{_n(x)}" cy="{_n(y)}" r="2.4" {fill}/>'
 
 
 def _text(x, y, text, size, anchor, baseline, colour="#000000", rotate=0) -> str:
