@@ -86,7 +86,7 @@ class Settings:
             if override.disabled:
                 continue
             context = Context({**rule.defaults(), **override.thresholds}, self.reference_speed, air.density,
-                              air.kinematic_viscosity)
+                              air.kinematic_viscosity, rule.effects)
             plan.append((rule, context, override.severity or rule.severity))
         return plan
 

@@ -2,7 +2,7 @@
 
 One function per rule, in the module of its zone, registered with :func:`rule`. The
 decorator carries the metadata (id ``zone.slug``, title, default severity, the features
-the rule needs, its thresholds with units and sources, the sources of its effect estimate);
+the rule needs, its thresholds with units and sources, its effect ranges as :class:`Effect`);
 the function's docstring is the rule's documentation, with the same four sections on every
 rule: ``What it checks:``, ``Why it matters:``, ``How to fix:``, ``Known limits:``.
 
@@ -29,8 +29,8 @@ import functools
 import inspect
 import math
 import re
-from dataclasses import dataclass
-from typing import Callable
+from dataclasses import dataclass, field
+from typing import Callable, Mapping
 
 from aeroreview.catalogue import REVIEW_ZONES
 from aeroreview.units import from_si, to_si
@@ -65,6 +65,42 @@ class Source:
 
     def as_dict(self) -> dict:
         return {"citation": self.citation, "kind": self.kind}
+
+
+@dataclass(frozen=True)
+class Effect:
+    """The range of what a fix recovers, declared once: its source text and the finding's counts share it.
+
+    Mostly drag counts; some rules quote a share or a coefficient that they turn into counts.
+    ``text`` says what the range covers and where it comes from, with ``{low}`` and ``{high}``
+    where the numbers go ("{low}-{high} counts; from memory"). A range per unit of something
+    ("per degree of useful taper") is scaled with :meth:`counts`. Put the effect in the rule's
+    ``sources`` and cost the finding with ``ctx.effect().counts(...)``, never with the numbers
+    again; a rule with several ranges names the others (``name="tall"``, ``ctx.effect("tall")``).
+    """
+
+    low: float
+    high: float
+    text: str
+    kind: str
+    name: str = "effect"
+
+    def __post_init__(self):
+        if "{low}" not in self.text and "{high}" not in self.text:
+            raise ValueError(f"effect text {self.text!r} must show its range with {{low}} and {{high}}")
+        if not 0 <= self.low <= self.high:
+            raise ValueError(f"effect range {self.low}-{self.high} must be 0 <= low <= high")
+
+    @property
+    def source(self) -> Source:
+        return Source("effect: " + self.text.format(low=f"{self.low:g}", high=f"{self.high:g}"), self.kind)
+
+    def counts(self, amount: float = 1.0, high_amount: float | None = None) -> tuple[float, float]:
+        """The range times ``amount``, the units of what it is quoted per (1 for a fixed range).
+
+        ``high_amount`` scales the high end where that quantity is itself uncertain.
+        """
+        return counts_range(self.low * amount, self.high * (amount if high_amount is None else high_amount))
 
 
 COMMON = Source("common practice in production-car aerodynamics", "common practice")
@@ -172,9 +208,16 @@ class Context:
     reference_speed: float  # m/s
     density: float  # kg/m^3
     kinematic_viscosity: float  # m^2/s
+    effects: Mapping[str, Effect] = field(default_factory=dict, compare=False)  # the rule's declared ranges, by name
 
     def __getitem__(self, name: str) -> float:
         return self.thresholds[name]
+
+    def effect(self, name: str = "effect") -> Effect:
+        """The rule's effect range ``name``, as declared in its sources."""
+        if name not in self.effects:
+            raise KeyError(f"the rule declares no effect named {name!r} (it has {sorted(self.effects)})")
+        return self.effects[name]
 
 
 @dataclass(frozen=True)
@@ -193,6 +236,7 @@ class Rule:
     sensitivity: Sensitivity | None = None
     optional: tuple[str, ...] = ()  # features the rule reads when given (a better limit or estimate)
     applies_if: Callable | None = None  # geometry test (sheet -> bool) beside the class list
+    effects: Mapping[str, Effect] = field(default_factory=dict, compare=False)  # its sources' Effect items, by name
 
     @property
     def doc(self) -> dict[str, str]:
@@ -304,8 +348,12 @@ def rule(id: str, title: str, severity: str, needs=(), thresholds=(), sources=()
             raise ValueError(f"rule {id} registered twice")
         if sensitivity and (sensitivity.feature not in needs or sensitivity.fix_to not in {t.name for t in thresholds}):
             raise ValueError(f"{id}: a sensitivity needs one of the rule's features and thresholds")
-        REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), tuple(sources), function,
-                            tuple(applies_to), figure, flow, sensitivity, tuple(optional), applies_if)
+        cited = tuple(item.source if isinstance(item, Effect) else item for item in sources)
+        effects = {item.name: item for item in sources if isinstance(item, Effect)}
+        if len(effects) < sum(isinstance(item, Effect) for item in sources):
+            raise ValueError(f"{id}: two effects share a name; name each with name=...")
+        REGISTRY[id] = Rule(id, zone, title, severity, tuple(needs), tuple(thresholds), cited, function,
+                            tuple(applies_to), figure, flow, sensitivity, tuple(optional), applies_if, effects)
         return function
 
     return register
@@ -357,16 +405,5 @@ def counts_range(low: float, high: float) -> tuple[float, float]:
 
 
 # The zone modules register their rules on import.
-from aeroreview.rules import (  # noqa: E402,F401
-    cooling,
-    data,
-    front,
-    rear,
-    result_quality,
-    sides,
-    stability,
-    surface_agreement,
-    underbody,
-    wheels,
-    windshield,
-)
+from aeroreview.rules import (cooling, crosswind, data, decklid, front, rear, result_quality, sides,  # noqa: E402,F401
+                              stability, surface_agreement, underbody, wheels, windshield)

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from aeroreview.display import M2, PERCENT, Reading
-from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, Effect, Source, Threshold, major, minor, passed, rule
 
 COOLING_SOURCE = Source("Katz, Automotive Aerodynamics, Wiley (ISBN 978-1-119-18572-7), section on cooling drag, p. 538: "
                         "passenger-car cooling drag dCd of about 0.01-0.07, most 0.03-0.05 (figure read on an online "
@@ -11,9 +11,10 @@ COOLING_SOURCE = Source("Katz, Automotive Aerodynamics, Wiley (ISBN 978-1-119-18
                         "recalled, so not marked published)", "from memory")
 # Share of the time a closed-able inlet stays closed at motorway speed, so its surplus costs drag (from memory).
 OPEN_SHARE = {"active": 0.3, "passive": 0.7, "none": 1.0}
-EFFECT_SOURCE = Source("effect: about 2-4 counts per 0.01 m^2 of surplus inlet while open; active shutters keep it "
-                       "closed about 70 % of motorway driving, passive flaps about 30 %; recalled, not checked",
-                       "from memory")
+INLET_EFFECT = Effect(2, 4, "about {low}-{high} counts per 0.01 m^2 of surplus inlet while open; active shutters keep "
+                      f"it closed about {100 * (1 - OPEN_SHARE['active']):.0f} % of motorway driving, passive flaps "
+                      f"about {100 * (1 - OPEN_SHARE['passive']):.0f} %; recalled, not checked", "from memory")
+INLET_EFFECT_AREA = 0.01  # m^2: the area INLET_EFFECT is quoted per
 
 
 @rule("cooling.inlet-area", "Cooling inlet area against the thermal requirement", "failure",
@@ -21,7 +22,7 @@ EFFECT_SOURCE = Source("effect: about 2-4 counts per 0.01 m^2 of surplus inlet w
       thresholds=(Threshold("oversize", "125 %", "%", "inlet / required above which the surplus costs drag", COMMON),
                   Threshold("undersize", "100 %", "%", "inlet / required below which cooling is at risk", COMMON)),
       optional=("cooling.shutters", "cooling.ducts_sealed"),
-      sources=(COOLING_SOURCE, EFFECT_SOURCE))
+      sources=(COOLING_SOURCE, INLET_EFFECT))
 def inlet_area(sheet, ctx):
     """
     What it checks: the open area of the cooling inlets against the area the thermal team
@@ -60,7 +61,7 @@ def inlet_area(sheet, ctx):
         controlled = shutters == "active" and sheet.get("cooling.ducts_sealed") is True
         open_share = OPEN_SHARE[shutters]
         extra = dict(Reading(ratio, PERCENT, at_most=ctx["oversize"]).shown(measured),
-                     counts=counts_range(200 * surplus * open_share, 400 * surplus * open_share),
+                     counts=ctx.effect().counts(surplus / INLET_EFFECT_AREA * open_share),
                      details={"open_share": open_share})
         if controlled:
             return minor("the cooling inlet is larger than needed, but active shutters and sealed ducts close the "
@@ -73,8 +74,14 @@ def inlet_area(sheet, ctx):
 @rule("cooling.shutters", "Grille shutters", "warning",
       needs=("cooling.shutters",),
       optional=("powertrain.kind",),
-      sources=(Source("effect: active shutters save 5-20 counts at motorway speed when closed on a combustion car, "
-                      "3-12 on an electric one whose inlets are smaller; recalled, not checked", "from memory"),
+      sources=(Effect(5, 20, "active shutters save {low}-{high} counts at motorway speed when closed on a combustion "
+                      "car; recalled, not checked", "from memory", name="combustion"),
+               Effect(2, 8, "{low}-{high} counts left by passive flaps on a combustion car; recalled, not checked",
+                      "from memory", name="combustion_passive"),
+               Effect(3, 12, "{low}-{high} counts on an electric car, whose inlets are smaller; recalled, not checked",
+                      "from memory", name="electric"),
+               Effect(1.2, 4.8, "{low}-{high} counts left by passive flaps on an electric car; recalled, not checked",
+                      "from memory", name="electric_passive"),
                Source("de Souza, Raeesi, Belzile, Caffrey and Schmitt, 'Investigation of drag reduction technologies "
                       "for light-duty vehicles...', SAE Int. J. Adv. Curr. Pract. Mobil. 1(3) (2019) 1233-1250, "
                       "doi 10.4271/2019-01-0644 (title/authors/year/venue and abstract checked on a PMC copy): active "
@@ -100,19 +107,19 @@ def shutters(sheet, ctx):
         passes: {features: {cooling.shutters: active}}
     """
     kind = sheet.get("cooling.shutters")
-    scale = 0.6 if sheet.get("powertrain.kind") == "electric" else 1.0
+    drive = "electric" if sheet.get("powertrain.kind") == "electric" else "combustion"
     if kind == "none":
         return major("the cooling inlets cannot be closed", measured="none", limit="active shutters",
-                     counts=counts_range(5 * scale, 20 * scale))
+                     counts=ctx.effect(drive).counts())
     if kind == "passive":
         return minor("passive flaps recover only part of the cooling drag", measured="passive",
-                     limit="active shutters", counts=counts_range(2 * scale, 8 * scale))
+                     limit="active shutters", counts=ctx.effect(drive + "_passive").counts())
     return passed("active shutters close the inlets when cooling is not needed", measured="active")
 
 
 @rule("cooling.sealing", "Inlets sealed to the heat exchangers", "warning",
       needs=("cooling.ducts_sealed",),
-      sources=(COMMON, Source("effect: 3-10 counts of bypass drag; from memory", "from memory")))
+      sources=(COMMON, Effect(3, 10, "{low}-{high} counts of bypass drag; from memory", "from memory")))
 def sealing(sheet, ctx):
     """
     What it checks: whether every leak path between the grille and the heat exchangers is
@@ -132,7 +139,7 @@ def sealing(sheet, ctx):
     if sheet.get("cooling.ducts_sealed"):
         return passed("the cooling ducts are sealed", measured="sealed")
     return major("cooling air bypasses the heat exchangers", measured="not sealed", limit="sealed",
-                 counts=counts_range(3, 10))
+                 counts=ctx.effect().counts())
 
 
 # Cooling inlet area / frontal area that a powertrain usually needs (low, high); from memory, not checked: an
@@ -147,7 +154,7 @@ INLET_SHARE_SOURCE = Source("usual cooling inlet area as a share of the frontal 
                             INLET_SHARE_SOURCE),
                   Threshold("hybrid", "4 %", "%", "the same for a hybrid", INLET_SHARE_SOURCE),
                   Threshold("electric", "2.5 %", "%", "the same for an electric vehicle", INLET_SHARE_SOURCE)),
-      sources=(INLET_SHARE_SOURCE, COOLING_SOURCE))
+      sources=(INLET_SHARE_SOURCE, COOLING_SOURCE, INLET_EFFECT))
 def inlet_share(sheet, ctx):
     """
     What it checks: the cooling inlet area as a share of the frontal area, against what
@@ -175,7 +182,7 @@ def inlet_share(sheet, ctx):
     if reading.beyond:
         surplus = (share - limit_share) * sheet.get("dimensions.frontal_area")
         return major(f"the cooling inlets are large for {'an' if kind[0] in 'aeiou' else 'a'} {kind} powertrain",
-                     **reading.shown(measured), counts=counts_range(200 * surplus, 400 * surplus))
+                     **reading.shown(measured), counts=ctx.effect().counts(surplus / INLET_EFFECT_AREA))
     return passed(f"the cooling inlet area suits the {kind} powertrain", **reading.shown(measured, margin=False))
 
 
@@ -211,8 +218,8 @@ def brake_ducts(sheet, ctx):
 
 @rule("cooling.outlet", "Where the cooling air leaves", "advisory",
       needs=("cooling.outlet",), optional=("wheels.wheelhouse_vented",),
-      sources=(COMMON, Source("effect: 1-4 counts when outlet air pressurises a closed wheelhouse; recalled, not "
-                              "checked", "from memory")))
+      sources=(COMMON, Effect(1, 4, "{low}-{high} counts when outlet air pressurises a closed wheelhouse; "
+                              "recalled, not checked", "from memory")))
 def outlet(sheet, ctx):
     """
     What it checks: where the cooling air leaves the engine bay, and whether the place can
@@ -235,5 +242,5 @@ def outlet(sheet, ctx):
     where = sheet.get("cooling.outlet")
     if where == "wheelhouse" and sheet.get("wheels.wheelhouse_vented") is not True:
         return minor("cooling air goes into a wheelhouse that is not vented to the side", measured=where,
-                     limit="a vented wheelhouse", counts=counts_range(1, 4))
+                     limit="a vented wheelhouse", counts=ctx.effect().counts())
     return passed(f"the cooling air leaves through the {where}", measured=where)

@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 from aeroreview.display import DEG, MM, PERCENT, Reading
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Source, Threshold, body_scale, counts_range,
-                              front_face_height, major, minor, passed, rule)
+from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Effect, Source, Threshold, body_scale, front_face_height,
+                              major, minor, passed, rule)
 
 EDGE_SOURCE = Source("Hucho 1998, front-edge rounding on box-like bodies (chapter not checked): drag falls steeply "
                      "with the edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled, "
@@ -15,23 +15,39 @@ FACE_SOURCE = Source("low car noses: the radius is compared with the height of t
 _EDGE_READS = ("dimensions.frontal_area", "dimensions.width", "dimensions.height", "vehicle.class")
 
 
-def _edge_rule(sheet, ctx, key: str, what: str, van_like_counts, car_counts, face=None):
+def _edge_effects(van_like: tuple[float, float], car: tuple[float, float]) -> tuple[Effect, ...]:
+    """The edge rules' ranges: a separated edge (times the radius shortfall) and a radius near the limit, by body.
+
+    Named ``van_like``, ``van_like_near``, ``car`` and ``car_near``.
+    """
+    effects = []
+    for body, (low, high) in (("van_like", van_like), ("car", car)):
+        bodies = "van-like bodies" if body == "van_like" else "cars"
+        effects += [Effect(low, high, "{low}-{high} counts on " + bodies + " with a separated edge, times the radius "
+                           "shortfall; from memory (Hucho 1998, chapter not checked)", "from memory", name=body),
+                    Effect(0.1 * low, 0.2 * high, "{low}-{high} counts on " + bodies + " with the radius between the "
+                           "attached and the comfortable ratio (a tenth to a fifth of the separated range); from memory",
+                           "from memory", name=body + "_near")]
+    return tuple(effects)
+
+
+def _edge_rule(sheet, ctx, key: str, what: str, face=None):
     """Judge an edge radius against a length: the front face height when given (low noses), else sqrt(A)."""
     scale, against = (face, "front face height h") if face else (body_scale(sheet), "sqrt(A)")
     radius = sheet.get(key)
     ratio = radius / scale
     boxy = sheet.get("vehicle.class") in BOX_CLASSES
-    low, high = van_like_counts if boxy else car_counts
+    body = "van_like" if boxy else "car"
     measured = f"r / {against} = {ratio:.3f} ({MM(radius)} on {MM(scale)})"
     if ratio < ctx["attached_ratio"]:
         shortfall = 1 - ratio / ctx["attached_ratio"]
         return major(f"{what} radius is small for the body size: the flow separates at the edge",
                      measured=measured, limit=f">= {ctx['attached_ratio']:.3f}", margin=f"{ratio - ctx['attached_ratio']:+.3f}",
-                     counts=counts_range(low * shortfall, high * shortfall))
+                     counts=ctx.effect(body).counts(shortfall))
     if ratio < ctx["comfortable_ratio"]:
         return minor(f"{what} radius is near the limit where the flow stays attached",
                      measured=measured, limit=f">= {ctx['comfortable_ratio']:.3f}",
-                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=counts_range(0.1 * low, 0.2 * high))
+                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=ctx.effect(body + "_near").counts())
     return passed(f"{what} radius keeps the flow attached", measured=measured, limit=f">= {ctx['attached_ratio']:.3f}")
 
 
@@ -44,8 +60,7 @@ _EDGE_THRESHOLDS = (
 @rule("front.upper-edge-radius", "Front upper edge radius relative to body size", "warning",
       needs=("front.upper_edge_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
       optional=_EDGE_READS + ("front.hood_edge_height", "front.air_dam_clearance"),
-      sources=(EDGE_SOURCE, FACE_SOURCE, Source("effect: 10-40 counts on van-like bodies, 2-10 on cars; from memory "
-                                                "(Hucho 1998, chapter not checked)", "from memory")))
+      sources=(EDGE_SOURCE, FACE_SOURCE, *_edge_effects(van_like=(10, 40), car=(2, 10))))
 def upper_edge_radius(sheet, ctx):
     """
     What it checks: the radius of the front upper edge (bumper to hood) in the side view,
@@ -70,15 +85,14 @@ def upper_edge_radius(sheet, ctx):
         fails (warning): {features: {front.upper_edge_radius: 20 mm}}
         passes: {features: {front.upper_edge_radius: 85 mm}}
     """
-    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge", (10, 40), (2, 10),
+    return _edge_rule(sheet, ctx, "front.upper_edge_radius", "Front upper edge",
                       face=front_face_height(sheet))
 
 
 @rule("front.corner-radius", "Front corner radius in plan view relative to body size", "warning",
       needs=("front.corner_radius", "dimensions.width", "dimensions.height"), thresholds=_EDGE_THRESHOLDS,
       optional=_EDGE_READS,
-      sources=(EDGE_SOURCE, Source("effect: 5-25 counts on van-like bodies, 2-8 on cars; from memory (Hucho 1998, "
-                                   "chapter not checked)", "from memory")))
+      sources=(EDGE_SOURCE, *_edge_effects(van_like=(5, 25), car=(2, 8))))
 def corner_radius(sheet, ctx):
     """
     What it checks: the radius of the front corners (bumper to body side) in the plan view,
@@ -98,13 +112,13 @@ def corner_radius(sheet, ctx):
         fails (warning): {features: {front.corner_radius: 40 mm}}
         passes: {features: {front.corner_radius: 190 mm}}
     """
-    return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner", (5, 25), (2, 8))
+    return _edge_rule(sheet, ctx, "front.corner_radius", "Front corner")
 
 
 @rule("front.air-dam", "Front air dam reaches below the underbody", "advisory", region="underbody",
       needs=("front.air_dam_clearance", "dimensions.ground_clearance"),
       thresholds=(Threshold("dam_depth", "15 mm", "mm", "how far the dam edge should reach below the underbody", COMMON),),
-      sources=(HUCHO, Source("effect: 3-12 counts and less front lift; from memory (Hucho 1998, front spoilers, "
+      sources=(HUCHO, Effect(3, 12, "{low}-{high} counts and less front lift; from memory (Hucho 1998, front spoilers, "
                              "chapter not checked)", "from memory")))
 def air_dam(sheet, ctx):
     """
@@ -130,14 +144,15 @@ def air_dam(sheet, ctx):
     measured = f"dam edge {MM(depth.value, signed=True)} below the underbody"
     if depth.beyond:
         return minor("the air dam does not reach below the underbody plane", **depth.shown(measured),
-                     counts=counts_range(3, 12), cl_front=-0.02)
+                     counts=ctx.effect().counts(), cl_front=-0.02)
     return passed("the air dam shields the underbody", **depth.shown(measured, margin=False))
 
 
 @rule("front.air-curtains", "Air curtains ahead of the front wheels", "advisory", region="wheels",
       needs=("front.air_curtains",),
-      sources=(Source("effect: 2-8 counts; from memory (published production-car figures for wheel air curtains)",
-                      "from memory"),), applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
+      sources=(Effect(2, 8, "{low}-{high} counts; from memory (published production-car figures for wheel air "
+                      "curtains)", "from memory"),),
+      applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
 def air_curtains(sheet, ctx):
     """
     What it checks: whether ducts from the front bumper blow a sheet of air across the
@@ -159,7 +174,7 @@ def air_curtains(sheet, ctx):
     if sheet.get("front.air_curtains"):
         return passed("air curtains are fitted", measured="fitted")
     return minor("no air curtains ahead of the front wheels", measured="none", limit="fitted",
-                 counts=counts_range(2, 8))
+                 counts=ctx.effect().counts())
 
 
 NOSE_SOURCE = Source("Hucho 1998, front-end shape (chapter not checked): a low stagnation point and a hood "
@@ -173,7 +188,10 @@ NOSE_SOURCE = Source("Hucho 1998, front-end shape (chapter not checked): a low s
                             NOSE_SOURCE),
                   Threshold("steep", "20 deg", "deg", "inclination above which the flow may separate at the hood "
                                                       "leading edge", NOSE_SOURCE)),
-      sources=(NOSE_SOURCE, Source("effect: 1-5 counts; recalled, not checked", "from memory")),
+      sources=(NOSE_SOURCE,
+               Effect(1, 5, "{low}-{high} counts for a nearly flat hood; recalled, not checked", "from memory"),
+               Effect(1, 3, "{low}-{high} counts for a hood steep enough to separate; recalled, not checked",
+                      "from memory", name="steep")),
       applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"))
 def hood_angle(sheet, ctx):
     """
@@ -196,10 +214,10 @@ def hood_angle(sheet, ctx):
     angle = Reading(sheet.get("front.hood_angle"), DEG, at_least=ctx["flat"], at_most=ctx["steep"], places=1)
     if angle.below:
         return minor("the hood is nearly flat: the nose stays high and blunt", **angle.shown(),
-                     counts=counts_range(1, 5), cl_front=-0.01)
+                     counts=ctx.effect().counts(), cl_front=-0.01)
     if angle.above:
         return minor("the hood is steep enough to separate behind its leading edge", **angle.shown(),
-                     counts=counts_range(1, 3))
+                     counts=ctx.effect("steep").counts())
     return passed("the hood inclination is in the usual range", **angle.shown(margin=False))
 
 
@@ -207,7 +225,7 @@ def hood_angle(sheet, ctx):
       needs=("front.stagnation_height", "dimensions.height"),
       thresholds=(Threshold("share", "36 %", "%", "stagnation height / body height above which the nose is high",
                             NOSE_SOURCE),),
-      sources=(NOSE_SOURCE, Source("effect: 1-4 counts and 0.01-0.03 of front lift; recalled, not checked",
+      sources=(NOSE_SOURCE, Effect(1, 4, "{low}-{high} counts and 0.01-0.03 of front lift; recalled, not checked",
                                    "from memory")),
       applies_to=("sedan", "fastback", "hatchback", "estate", "sports"))
 def stagnation_height(sheet, ctx):
@@ -234,7 +252,7 @@ def stagnation_height(sheet, ctx):
     measured = f"{PERCENT(share.value)} of the height ({MM(height)})"
     if share.beyond:
         return minor("the nose is high: more air is sent under the car", **share.shown(measured),
-                     counts=counts_range(1, 4), cl_front=-0.02)
+                     counts=ctx.effect().counts(), cl_front=-0.02)
     return passed("the stagnation point is low", **share.shown(measured, margin=False))
 
 
@@ -242,8 +260,8 @@ def stagnation_height(sheet, ctx):
       needs=("front.splitter_length",),
       thresholds=(Threshold("maximum", "60 mm", "mm", "overhang above which a road car's splitter adds drag and is "
                                                       "exposed to kerbs", COMMON),),
-      sources=(COMMON, Source("effect: 1-4 counts for the overhang beyond 60 mm, with less front lift; recalled, "
-                              "not checked", "from memory")))
+      sources=(COMMON, Effect(1, 4, "{low}-{high} counts for the overhang beyond the maximum, with less front "
+                              "lift; recalled, not checked", "from memory")))
 def splitter(sheet, ctx):
     """
     What it checks: how far a horizontal splitter reaches forward of the bumper face.
@@ -252,7 +270,7 @@ def splitter(sheet, ctx):
     front lift; a long one collects stagnation pressure on its top face (downforce, but also
     drag) and is the first part to meet kerbs and ramps.
 
-    How to fix: keep the overhang within 60 mm on a road car, or support a longer one and
+    How to fix: keep the overhang within {maximum} on a road car, or support a longer one and
     weigh its drag against the front-lift target.
 
     Known limits: the right length depends on the front-lift balance; the rule only flags
@@ -265,5 +283,5 @@ def splitter(sheet, ctx):
     length = Reading(sheet.get("front.splitter_length"), MM, at_most=ctx["maximum"])
     if length.beyond:
         return minor("the splitter overhang is long for a road car: drag and kerb strikes", **length.shown(),
-                     counts=counts_range(1, 4))
+                     counts=ctx.effect().counts())
     return passed("the splitter overhang is moderate", **length.shown(margin=False))

@@ -6,8 +6,8 @@ import math
 
 from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd, ahmed_uncertainty
 from aeroreview.display import DEG, M2, MM, PERCENT, Reading
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Sensitivity, Source, Threshold, body_scale,
-                              counts_range, major, minor, passed, rule)
+from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Effect, Sensitivity, Source, Threshold,
+                              body_scale, major, minor, passed, rule)
 
 AHMED = Source(AHMED_SOURCE + ", SAE Transactions 93 (1984) 473-503 (title/authors/year/venue and abstract checked "
                "on a copy of the first page): critical slant angle about 30 deg, drag peak just below it; curve "
@@ -20,9 +20,7 @@ RADIUS_SOURCE = Source("Thacker, Aubrun, Leroy and Devinant, rounded roof-to-sla
                        "as J. Wind Eng. Ind. Aerodyn. 107-108 (2012) (their Exp. Fluids paper is recalled as vol. 54, "
                        "2013); search found neither title nor abstract, so venue, volume and the 0.15 threshold are "
                        "recalled, not checked", "from memory")
-RADIUS_EFFECT = Source("effect: a generous roof-to-backlight radius removes up to 60 % of the Ahmed-curve drag step, in "
-                       "proportion to r / sqrt(A) up to 0.15; recalled, not checked (rounded-edge Ahmed studies)",
-                       "from memory")
+COUNTS_PER_PERCENT_OF_CD = 1000 / 100  # 1 drag count = 0.001 of Cd (common practice)
 TAPER_SOURCE = Source("Hucho 1998, boat-tailing (chapter not checked): drag falls with taper angle up to about 15 deg, "
                       "beyond which the flow separates from the taper; recalled, not checked", "from memory")
 SQUARE_BACK_ANGLE = 40.0  # deg: the Ahmed curve is published from 0 to 40 deg and flat above 35 (Ahmed et al. 1984)
@@ -44,9 +42,12 @@ def slanted_rear(sheet) -> bool:
           Threshold("generous_radius", "0.15", "", "roof-to-backlight radius / sqrt(A) that steadies the flow",
                     RADIUS_SOURCE),
       ),
-      sources=(AHMED, BAND, RADIUS_SOURCE, RADIUS_EFFECT,
-               Source("effect: 20-60 % of the Ahmed-curve drag step (with the curve's uncertainty); production bodies "
-                      "respond less than the Ahmed body; recalled, not checked", "from memory")),
+      sources=(AHMED, BAND, RADIUS_SOURCE,
+               Effect(0, 60, "a generous roof-to-backlight radius removes up to {high} % of the Ahmed-curve drag step, "
+                      "in proportion to r / sqrt(A) up to 0.15; recalled, not checked (rounded-edge Ahmed studies)",
+                      "from memory", name="radius"),
+               Effect(20, 60, "{low}-{high} % of the Ahmed-curve drag step (with the curve's uncertainty); production "
+                      "bodies respond less than the Ahmed body; recalled, not checked", "from memory")),
       applies_if=slanted_rear, figure="ahmed",
       sensitivity=Sensitivity("rear.backlight_angle", 3.2, "deg", (20, 28), "rising_low", Source(
           "the Ahmed curve rises about 8 counts per deg from 20 to 28 deg (SAE 840300, values from memory); x 0.4 "
@@ -95,8 +96,9 @@ def backlight_angle(sheet, ctx):
     reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(beyond))
     step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
     share = 1.0 if generous else (ratio / ctx["generous_radius"] if ratio else 0.0)  # a ratio below the limit
-    steadied = 1 - 0.6 * share  # the radius lowers the estimate too
-    counts = counts_range(200 * (step - spread) * steadied, 600 * (step + spread) * steadied)
+    steadied = 1 - ctx.effect("radius").high / 100 * share  # the radius lowers the estimate too
+    counts = ctx.effect().counts(COUNTS_PER_PERCENT_OF_CD * (step - spread) * steadied,
+                                     COUNTS_PER_PERCENT_OF_CD * (step + spread) * steadied)
     details = {"ahmed_step": round(step, 4), "ahmed_uncertainty": spread, "radius_factor": round(steadied, 3)}
     if low <= degrees <= high:
         margin = f"{DEG(min(angle - ctx['critical_low'], ctx['critical_high'] - angle), 1)} inside the region"
@@ -116,15 +118,22 @@ def backlight_angle(sheet, ctx):
                   limit=region)
 
 
+TAPER_EFFECT = Effect(0.8, 2, "about {low}-{high} counts per degree of useful taper missing (up to 5 deg past the "
+                      "useful limit); from memory", "from memory")
+OVER_TAPER_EFFECT = Effect(3, 12, "{low}-{high} counts for a taper steeper than the flow can follow; from memory",
+                           "from memory", name="over")
+TAPER_REACH = 5.0  # deg past the useful limit where most of the taper gain is won (from memory, with TAPER_EFFECT)
+
+
 def _taper(sheet, ctx, key: str, where: str):
     angle = Reading(sheet.get(key), DEG, at_least=ctx["useful"], at_most=ctx["separation"], places=1)
     if angle.above:
         return major(f"the {where} taper is steeper than the flow can follow: separation returns", **angle.shown(),
-                     counts=counts_range(3, 12))
+                     counts=ctx.effect("over").counts())
     if angle.below:
-        missing = math.degrees(ctx["useful"]) + 5 - math.degrees(angle.value)
+        missing = math.degrees(ctx["useful"]) + TAPER_REACH - math.degrees(angle.value)
         return minor(f"the {where} has little or no taper: free drag reduction left on the table", **angle.shown(),
-                     counts=counts_range(0.8 * missing, 2.0 * missing))
+                     counts=ctx.effect().counts(missing))
     return passed(f"the {where} taper is in the useful range", **angle.shown(margin=False))
 
 
@@ -136,7 +145,7 @@ _TAPER_THRESHOLDS = (
 
 @rule("rear.side-taper", "Rear plan-view taper (boat-tailing)", "warning",
       needs=("rear.side_taper_angle",), thresholds=_TAPER_THRESHOLDS,
-      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
+      sources=(TAPER_SOURCE, TAPER_EFFECT, OVER_TAPER_EFFECT),
       sensitivity=Sensitivity("rear.side_taper_angle", -1.5, "deg", (0, 15), "useful", TAPER_SOURCE))
 def side_taper(sheet, ctx):
     """
@@ -146,8 +155,8 @@ def side_taper(sheet, ctx):
     pressure; drag falls with taper angle up to about 15 deg. Steeper than that, the flow
     cannot follow the surface, separates at the start of the taper, and the gain is lost.
 
-    How to fix: taper the rear quarters and lamps by 5-15 deg over the last 300 mm or more,
-    ending in a sharp separation edge; above 16 deg, flatten the taper or shorten it and add
+    How to fix: taper the rear quarters and lamps by {useful} to about 15 deg over the last 300 mm
+    or more, ending in a sharp separation edge; above {separation}, flatten the taper or shorten it and add
     an edge where it begins.
 
     Known limits: one angle describes the taper; its length and the curvature where it
@@ -162,7 +171,7 @@ def side_taper(sheet, ctx):
 
 @rule("rear.roof-taper", "Roof drop toward the rear (side-view boat-tailing)", "warning",
       needs=("rear.roof_taper_angle",), optional=("rear.backlight_angle",), thresholds=_TAPER_THRESHOLDS,
-      sources=(TAPER_SOURCE, Source("effect: about 1-2 counts per degree of useful taper; from memory", "from memory")),
+      sources=(TAPER_SOURCE, TAPER_EFFECT, OVER_TAPER_EFFECT),
       applies_if=lambda sheet: not slanted_rear(sheet),
       sensitivity=Sensitivity("rear.roof_taper_angle", -1.5, "deg", (0, 15), "useful", TAPER_SOURCE))
 def roof_taper(sheet, ctx):
@@ -190,7 +199,7 @@ def roof_taper(sheet, ctx):
 @rule("rear.separation-edge", "Defined separation edges at the rear", "warning",
       needs=("rear.separation_edge_radius",),
       thresholds=(Threshold("radius", "10 mm", "mm", "edge radius above which the separation line wanders", COMMON),),
-      sources=(COMMON, HUCHO_SOVRAN, Source("effect: 3-12 counts; from memory", "from memory")))
+      sources=(COMMON, HUCHO_SOVRAN, Effect(3, 12, "{low}-{high} counts; from memory", "from memory")))
 def separation_edge(sheet, ctx):
     """
     What it checks: that the rear edges where the flow should leave the body (tail lamp
@@ -199,7 +208,7 @@ def separation_edge(sheet, ctx):
     Why it matters: a rounded rear edge lets the flow wrap around it; the separation line
     then moves with speed and yaw, the wake grows and the base pressure falls.
 
-    How to fix: make the rear edges sharp (radius under 5-10 mm) along the whole perimeter
+    How to fix: make the rear edges sharp (radius {radius} or less) along the whole perimeter
     of the base; lamp and bumper parting lines can carry the edge.
 
     Known limits: one radius for the whole perimeter; a locally rounded corner matters less.
@@ -211,7 +220,7 @@ def separation_edge(sheet, ctx):
     radius = Reading(sheet.get("rear.separation_edge_radius"), MM, at_most=ctx["radius"])
     if radius.beyond:
         return major("the rear edges are rounded: the separation line is not fixed", **radius.shown(),
-                     counts=counts_range(3, 12))
+                     counts=ctx.effect().counts())
     return passed("the rear edges fix the separation line", **radius.shown(margin=False))
 
 
@@ -219,7 +228,9 @@ def separation_edge(sheet, ctx):
       needs=("rear.spoiler_height",),
       thresholds=(Threshold("minimum", "10 mm", "mm", "height below which a kick-up does little", COMMON),
                   Threshold("maximum", "80 mm", "mm", "height above which the spoiler's own drag dominates", HUCHO)),
-      sources=(HUCHO, Source("effect: 2-8 counts and 0.02-0.06 less rear lift; from memory", "from memory")))
+      sources=(HUCHO, Effect(2, 8, "{low}-{high} counts and 0.02-0.06 less rear lift; from memory", "from memory"),
+               Effect(2, 6, "{low}-{high} counts for a spoiler above the maximum height (its own drag); from memory",
+                      "from memory", name="tall")))
 def spoiler(sheet, ctx):
     """
     What it checks: the height of the rear spoiler or decklid kick-up above the local surface.
@@ -227,8 +238,8 @@ def spoiler(sheet, ctx):
     Why it matters: a small kick-up at the trailing edge raises the base pressure and cuts
     rear lift; a tall spoiler produces more downforce but pays for it in drag.
 
-    How to fix: add a kick-up or spoiler lip of 10-40 mm at the decklid or roof end; above
-    80 mm, lower it unless the rear lift target demands it.
+    How to fix: add a kick-up or spoiler lip of {minimum} to about 40 mm at the decklid or roof
+    end; above {maximum}, lower it unless the rear lift target demands it.
 
     Known limits: the best height depends on the backlight and decklid; check rear lift
     and stability before and after any change.
@@ -240,16 +251,16 @@ def spoiler(sheet, ctx):
     height = Reading(sheet.get("rear.spoiler_height"), MM, at_least=ctx["minimum"], at_most=ctx["maximum"])
     if height.below:
         return minor("no effective kick-up or spoiler at the rear edge", **height.shown(margin=False),
-                     counts=counts_range(2, 8), cl_rear=-0.04)
+                     counts=ctx.effect().counts(), cl_rear=-0.04)
     if height.above:
         return minor("the spoiler is tall: check that its drag is paid for by the rear lift target",
-                     **height.shown(margin=False), counts=counts_range(2, 6))
+                     **height.shown(margin=False), counts=ctx.effect("tall").counts())
     return passed("the rear kick-up height is in the useful range", **height.shown(margin=False))
 
 
 @rule("rear.roof-rails", "Roof rails", "warning", region="appendages",
       needs=("rear.roof_rails",),
-      sources=(Source("effect: raised rails 5-15 counts; from memory (published production-car comparisons)",
+      sources=(Effect(5, 15, "raised rails {low}-{high} counts; from memory (published production-car comparisons)",
                       "from memory"),))
 def roof_rails(sheet, ctx):
     """
@@ -270,83 +281,8 @@ def roof_rails(sheet, ctx):
     rails = sheet.get("rear.roof_rails")
     if rails == "raised":
         return major("raised roof rails stand in the fastest flow on the body", measured="raised", limit="flush or none",
-                     counts=counts_range(5, 15))
+                     counts=ctx.effect().counts())
     return passed("no raised roof rails", measured=rails)
-
-
-DECKLID_SOURCE = Source("notchback decklids: a longer, higher decklid lets the backlight flow reattach and shortens the "
-                        "wake; Hucho 1998, notchback rear ends (chapter not checked); thresholds recalled, not checked",
-                        "from memory")
-
-
-@rule("rear.decklid-length", "Decklid length behind a slanted backlight", "advisory",
-      needs=("rear.decklid_length", "dimensions.length"),
-      thresholds=(Threshold("share", "5 %", "%", "decklid length / vehicle length below which the tail is too short "
-                                                  "for the backlight flow to reattach", DECKLID_SOURCE),),
-      sources=(DECKLID_SOURCE, Source("effect: 2-6 counts and some rear lift; recalled, not checked", "from memory")),
-      applies_if=slanted_rear)
-def decklid_length(sheet, ctx):
-    """
-    What it checks: the length of the decklid (trunk lid or tail deck) behind a slanted
-    backlight, as a share of the vehicle length.
-
-    Why it matters: on a notchback or a fastback with a short deck, the flow leaving the
-    backlight needs a surface to reattach to before the rear edge; a deck that is too short
-    lets the wake start at the base of the backlight, with more drag and rear lift.
-
-    How to fix: lengthen the decklid (move the backlight base forward or the rear edge
-    rearward), or raise the deck so that the backlight is shorter and flatter.
-
-    Known limits: the height of the decklid above the backlight base matters as much as its
-    length; the sheet records only the length and the decklid angle.
-
-    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
-        fails (advisory): {features: {rear.decklid_length: 150 mm}}
-        passes: {features: {rear.decklid_length: 300 mm}}
-    """
-    length = sheet.get("rear.decklid_length")
-    share = Reading(length / sheet.get("dimensions.length"), PERCENT, at_least=ctx["share"], places=1)
-    measured = f"{PERCENT(share.value, 1)} of the length ({MM(length)})"
-    if share.beyond:
-        return minor("the decklid is short: the backlight flow has no deck to reattach to", **share.shown(measured),
-                     counts=counts_range(2, 6), cl_rear=-0.02)
-    return passed("the decklid gives the backlight flow room to reattach", **share.shown(measured, margin=False))
-
-
-@rule("rear.decklid-angle", "Decklid falling toward the rear edge", "advisory",
-      needs=("rear.decklid_angle",),
-      thresholds=(Threshold("falling", "8 deg", "deg", "decklid fall above which the tail loses its kick-up effect",
-                            DECKLID_SOURCE),),
-      sources=(DECKLID_SOURCE, Source("effect: 1-4 counts and 0.01-0.04 more rear lift; recalled, not checked",
-                                      "from memory")))
-def decklid_angle(sheet, ctx):
-    """
-    What it checks: how steeply the decklid falls toward the rear edge in the side view.
-
-    Why it matters: a decklid that falls rearward turns the flow downward over the tail,
-    like an upside-down kick-up: the base pressure falls and rear lift rises. A level deck,
-    or one that rises slightly to a sharp edge, does the opposite.
-
-    How to fix: level the decklid, or end it in a kick-up or a spoiler lip with a sharp edge.
-
-    Known limits: one chord angle; a deck that falls and then kicks up at the edge is judged
-    by its chord only, and the spoiler rule judges the kick-up.
-
-    Examples (changes to the demo's clean revision, vehicles/tessel/r2.yaml):
-        fails (advisory): {features: {rear.decklid_angle: 12 deg}}
-        passes: {features: {rear.decklid_angle: 2 deg}}
-    """
-    angle = Reading(sheet.get("rear.decklid_angle"), DEG, at_most=ctx["falling"], places=1)
-    measured = DEG(angle.value, 1, signed=True)
-    if angle.beyond:
-        return minor("the decklid falls steeply toward the rear edge: rear lift rises", **angle.shown(measured),
-                     counts=counts_range(1, 4), cl_rear=-0.02)
-    return passed("the decklid is level enough to hold the tail flow", **angle.shown(measured, margin=False))
-
-
-BASE_SOURCE = Source("base drag = -Cp_base x A_base / A with a base pressure coefficient of about -0.15 to -0.25 on "
-                     "passenger cars; Hucho 1998 (chapter not checked), recalled, not checked", "from memory")
-BASE_PRESSURE = (0.15, 0.25)  # -Cp of the base, passenger cars (BASE_SOURCE)
 
 
 @rule("rear.base-area", "Base (wake) area against the frontal area", "advisory",
@@ -355,7 +291,9 @@ BASE_PRESSURE = (0.15, 0.25)  # -Cp of the base, passenger cars (BASE_SOURCE)
                             COMMON),
                   Threshold("box_share", "85 %", "%", "the same for upright bodies (vans, SUVs, pickups, crossovers)",
                             COMMON)),
-      sources=(BASE_SOURCE, HUCHO))
+      sources=(Effect(0.15, 0.25, "base drag = -Cp_base x A_base / A with a base pressure coefficient of about -{low} "
+                      "to -{high} on passenger cars; Hucho 1998 (chapter not checked), recalled, not checked",
+                      "from memory"), HUCHO))
 def base_area(sheet, ctx):
     """
     What it checks: the area of the near-vertical rear face (the base the wake starts from)
@@ -382,5 +320,5 @@ def base_area(sheet, ctx):
     if reading.beyond:
         excess = share - limit_share
         return minor("the base is large: its wake pressure acts on a large area", **reading.shown(measured),
-                     counts=counts_range(1000 * BASE_PRESSURE[0] * excess, 1000 * BASE_PRESSURE[1] * excess))
+                     counts=ctx.effect().counts(1000 * excess))
     return passed("the base is compact", **reading.shown(measured, margin=False))

@@ -3,10 +3,8 @@
 from __future__ import annotations
 
 from aeroreview.display import CM2, MM, PERCENT, Reading
-from aeroreview.rules import COMMON, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, Effect, Source, Threshold, major, minor, passed, rule
 
-MIRROR_CD = (0.4, 0.6)  # drag coefficient of a mirror head on its own frontal area (from memory, Hucho 1998,
-# chapter not checked)
 LARGE_MIRROR_CLASSES = ("van", "pickup")  # wide bodies and trailers need a larger field of view (common practice)
 
 
@@ -16,8 +14,8 @@ LARGE_MIRROR_CLASSES = ("van", "pickup")  # wide bodies and trailers need a larg
                             COMMON),
                   Threshold("share_large", "2.5 %", "%", "the same for vans and pickups, whose field of view "
                                                           "needs larger mirrors", COMMON)),
-      sources=(Source("mirror head Cd 0.4-0.6 on its own area, so mirrors cost 1000 x Cd_m x A_m / A counts; "
-                      "from memory (Hucho 1998, chapter not checked)", "from memory"),
+      sources=(Effect(0.4, 0.6, "mirror head Cd {low}-{high} on its own area, so mirrors cost 1000 x Cd_m x A_m / A "
+                      "counts; from memory (Hucho 1998, chapter not checked)", "from memory"),
                Source("camera pods replacing mirrors: typical production figures 5-10 counts; from memory",
                       "from memory")))
 def mirror_area(sheet, ctx):
@@ -33,7 +31,7 @@ def mirror_area(sheet, ctx):
     trailing edge and a tapered base, or replace the mirrors with cameras where the local
     regulations allow it.
 
-    Vans and pickups are allowed larger mirrors (2.5 % of A): their width and trailers need
+    Vans and pickups are allowed larger mirrors ({share_large} of A): their width and trailers need
     the field of view, and the regulations set its minimum.
 
     Known limits: the interference with the A-pillar vortex can add or remove drag beyond
@@ -48,14 +46,13 @@ def mirror_area(sheet, ctx):
     area, frontal = sheet.get("sides.mirror_area"), sheet.get("dimensions.frontal_area")
     share = area / frontal
     allowed = ctx["share_large"] if sheet.get("vehicle.class") in LARGE_MIRROR_CLASSES else ctx["share"]
-    cost = (1000 * MIRROR_CD[0] * area / frontal, 1000 * MIRROR_CD[1] * area / frontal)
+    cost = (1000 * ctx.effect().low * area / frontal, 1000 * ctx.effect().high * area / frontal)
     reading = Reading(share, PERCENT, at_most=allowed, places=2, limit_places=1)
     measured = f"{PERCENT(share, 2)} of A ({CM2(area)})"
     if reading.beyond:
-        target = allowed * frontal
-        saving = (1000 * MIRROR_CD[0] * (area - target) / frontal, 1000 * MIRROR_CD[1] * (area - target) / frontal)
+        excess = (area - allowed * frontal) / frontal  # share of A above the limit
         return major(f"the mirrors are large; they cost about {cost[0]:.0f}-{cost[1]:.0f} counts in all",
-                     **reading.shown(measured), counts=counts_range(*saving))
+                     **reading.shown(measured), counts=ctx.effect().counts(1000 * excess))
     return passed(f"mirror size is moderate (about {cost[0]:.0f}-{cost[1]:.0f} counts in all)",
                   **reading.shown(measured, margin=False))
 
@@ -63,7 +60,7 @@ def mirror_area(sheet, ctx):
 @rule("sides.mirror-gap", "Gap between mirror housing and side glass", "warning",
       needs=("sides.mirror_gap",), optional=("sides.mirror_kind",),
       thresholds=(Threshold("gap", "45 mm", "mm", "gap below which the channel flow interferes", COMMON),),
-      sources=(COMMON, Source("effect: 1-5 counts, and wind noise; from memory", "from memory")))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts, and wind noise; from memory", "from memory")))
 def mirror_gap(sheet, ctx):
     """
     What it checks: the clear gap between the mirror housing and the side glass.
@@ -71,7 +68,7 @@ def mirror_gap(sheet, ctx):
     Why it matters: a narrow gap forms a channel where the mirror's and the pillar's flows
     interfere: local separation, drag and wind noise.
 
-    How to fix: widen the gap to 45 mm or more, or close it fully with a shaped stalk.
+    How to fix: widen the gap to {gap} or more, or close it fully with a shaped stalk.
 
     Known limits: mirrors mounted on the door skin below the glass line are judged by the
     same number, which is a simplification.
@@ -85,13 +82,13 @@ def mirror_gap(sheet, ctx):
     gap = Reading(sheet.get("sides.mirror_gap"), MM, at_least=ctx["gap"])
     if gap.beyond:
         return major("the mirror sits close to the glass: channel flow, drag and noise", **gap.shown(),
-                     counts=counts_range(1, 5))
+                     counts=ctx.effect().counts())
     return passed("the mirror gap is clear", **gap.shown(margin=False))
 
 
 @rule("sides.door-handles", "Door handles flush with the skin", "advisory",
       needs=("sides.door_handles",),
-      sources=(Source("effect: protruding handles 1-4 counts; from memory", "from memory"),))
+      sources=(Effect(1, 4, "protruding handles {low}-{high} counts; from memory", "from memory"),))
 def door_handles(sheet, ctx):
     """
     What it checks: whether the door handles protrude from the skin.
@@ -110,14 +107,14 @@ def door_handles(sheet, ctx):
     handles = sheet.get("sides.door_handles")
     if handles == "protruding":
         return minor("the door handles protrude into the flow", measured=handles, limit="flush or recessed",
-                     counts=counts_range(1, 4))
+                     counts=ctx.effect().counts())
     return passed("the door handles do not protrude", measured=handles)
 
 
 @rule("sides.sill-step", "Sill set-back below the doors", "advisory",
       needs=("sides.sill_step",),
       thresholds=(Threshold("step", "15 mm", "mm", "set-back above which the side flow is drawn under", COMMON),),
-      sources=(COMMON, Source("effect: 1-3 counts; from memory", "from memory")))
+      sources=(COMMON, Effect(1, 3, "{low}-{high} counts; from memory", "from memory")))
 def sill_step(sheet, ctx):
     """
     What it checks: the inboard step of the sill below the door surface.
@@ -126,7 +123,7 @@ def sill_step(sheet, ctx):
     underbody with disturbed air; a side skirt that continues the door line keeps the two
     flows apart.
 
-    How to fix: bring the sill or side skirt out to within 15 mm of the door skin line.
+    How to fix: bring the sill or side skirt out to within {step} of the door skin line.
 
     Known limits: styling often wants the shadow line; the drag effect is small.
 
@@ -137,14 +134,14 @@ def sill_step(sheet, ctx):
     step = Reading(sheet.get("sides.sill_step"), MM, at_most=ctx["step"])
     if step.beyond:
         return minor("the sill is set back deeply below the doors", **step.shown(margin=False),
-                     counts=counts_range(1, 3))
+                     counts=ctx.effect().counts())
     return passed("the sill follows the door line", **step.shown(margin=False))
 
 
 @rule("sides.panel-gap", "Shut-line gaps on the body side", "advisory",
       needs=("sides.panel_gap",),
       thresholds=(Threshold("gap", "5 mm", "mm", "nominal gap above which shut lines trip the side flow", COMMON),),
-      sources=(COMMON, Source("effect: 0.5-2 counts, and wind noise; recalled, not checked", "from memory")))
+      sources=(COMMON, Effect(0.5, 2, "{low}-{high} counts, and wind noise; recalled, not checked", "from memory")))
 def panel_gap(sheet, ctx):
     """
     What it checks: the nominal shut-line gap on the body side (doors, fenders, tailgate).
@@ -153,7 +150,7 @@ def panel_gap(sheet, ctx):
     boundary layer, let air in and out of the door cavities and add wind noise and a little
     drag.
 
-    How to fix: tighten the nominal gap (5 mm or less) or seal the gaps behind the skin with
+    How to fix: tighten the nominal gap ({gap} or less) or seal the gaps behind the skin with
     flush seals at the leading edges.
 
     Known limits: the drag effect is small; a sealed wide gap costs less than an open narrow one.
@@ -164,5 +161,5 @@ def panel_gap(sheet, ctx):
     """
     gap = Reading(sheet.get("sides.panel_gap"), MM, at_most=ctx["gap"], places=1)
     if gap.beyond:
-        return minor("the side shut lines are wide", **gap.shown(), counts=counts_range(0.5, 2))
+        return minor("the side shut lines are wide", **gap.shown(), counts=ctx.effect().counts())
     return passed("the shut lines are tight", **gap.shown(margin=False))

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 from aeroreview.display import DEG, MM, PERCENT, Reading
-from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, Effect, Sensitivity, Source, Threshold, major, minor, passed, rule
 
 DIFFUSER_SOURCE = Source("Ruhrmann and Zhang, 'Influence of diffuser angle on a bluff body in ground effect', J. "
                          "Fluids Eng., ASME (2003), doi 10.1115/1.1537252 (title/authors/DOI and abstract checked): "
@@ -25,8 +25,9 @@ COOPER = Source("Cooper, Bertenyi, Dutil, Syms and Sovran, 'The aerodynamic perf
                   Threshold("battery_target", "90 %", "%", "coverage an electric vehicle's flat battery floor makes "
                                                            "easy to reach", COMMON),
                   Threshold("poor", "50 %", "%", "coverage below which the underbody is largely open", COMMON)),
-      sources=(COMMON, Source("effect: a fully panelled floor saves 20-50 counts against an open one; from memory "
-                              "(Hucho 1998, underbody, chapter not checked)", "from memory")),
+      sources=(COMMON, Effect(20, 50, "a fully panelled floor saves {low}-{high} counts against an open one, in "
+                              "proportion to the coverage gained; from memory (Hucho 1998, underbody, chapter not "
+                              "checked)", "from memory")),
       sensitivity=Sensitivity("underbody.panel_coverage", -0.35, "%", (25, 100), "target", Source(
           "the middle of the rule's 20-50 counts for a fully panelled floor, per % of coverage",
           "from memory")))
@@ -42,7 +43,7 @@ def panel_coverage(sheet, ctx):
     openings only where cooling or service needs them; seal the gaps between panels.
 
     An electric vehicle's battery pack forms a flat floor between the axles, so its target
-    is higher (90 %).
+    is higher ({battery_target}).
 
     Known limits: coverage alone does not say how smooth the panels are or how they end;
     the battery floor is assumed for every electric vehicle.
@@ -56,11 +57,11 @@ def panel_coverage(sheet, ctx):
     gap = target - coverage
     reading = Reading(coverage, PERCENT, at_least=target)
     if coverage < ctx["poor"]:
-        return major("the underbody is largely open", **reading.shown(), counts=counts_range(20 * gap, 50 * gap),
+        return major("the underbody is largely open", **reading.shown(), counts=ctx.effect().counts(gap),
                      cl_front=-0.01, cl_rear=-0.01)
     if reading.beyond:
         return minor("the underbody panels leave parts open", **reading.shown(),
-                     counts=counts_range(20 * gap, 50 * gap))
+                     counts=ctx.effect().counts(gap))
     return passed("the underbody is well covered", **reading.shown(margin=False))
 
 
@@ -69,8 +70,11 @@ def panel_coverage(sheet, ctx):
       thresholds=(Threshold("separation", "12 deg", "deg", "angle above which the diffuser flow separates",
                             DIFFUSER_SOURCE),
                   Threshold("edge", "10 deg", "deg", "angle above which separation is near", DIFFUSER_SOURCE)),
-      sources=(DIFFUSER_SOURCE, COOPER, Source("effect: a separated diffuser loses 5-20 counts and its downforce; "
-                                              "recalled, not checked", "from memory")),
+      sources=(DIFFUSER_SOURCE, COOPER,
+               Effect(5, 20, "a separated diffuser loses {low}-{high} counts and its downforce; recalled, not checked",
+                      "from memory"),
+               Effect(1, 5, "{low}-{high} counts for a diffuser close to separation; recalled, not checked",
+                      "from memory", name="edge")),
       sensitivity=Sensitivity("underbody.diffuser_angle", 2.0, "deg", (8, 16), "edge", Source(
           "about 2 counts per deg steeper where the diffuser flow starts to separate (the rule's 5-20 counts over "
           "the separation)", "from memory")))
@@ -83,7 +87,7 @@ def diffuser_angle(sheet, ctx):
     it; steeper, it separates, and the diffuser turns into a base with more drag and
     more lift than a moderate one.
 
-    How to fix: keep the diffuser angle at 5-10 deg, lengthen it rather than steepen it,
+    How to fix: keep the diffuser angle between about 5 deg and {edge}, lengthen it rather than steepen it,
     and add side fences or strakes where a steeper angle is unavoidable.
 
     Known limits: wheel wakes and exposed parts in the diffuser move the separation angle;
@@ -98,16 +102,16 @@ def diffuser_angle(sheet, ctx):
     edge = Reading(angle, DEG, at_most=ctx["edge"], places=1)
     if separation.beyond:
         return major("the diffuser is steeper than the flow can follow: it separates", **separation.shown(),
-                     counts=counts_range(5, 20), cl_rear=-0.04)
+                     counts=ctx.effect().counts(), cl_rear=-0.04)
     if edge.beyond:
-        return minor("the diffuser angle is close to separation", **edge.shown(), counts=counts_range(1, 5))
+        return minor("the diffuser angle is close to separation", **edge.shown(), counts=ctx.effect("edge").counts())
     return passed("the diffuser angle is in the attached range", **edge.shown(margin=False))
 
 
 @rule("underbody.diffuser-exposed", "Parts standing in the diffuser flow", "warning",
       needs=("underbody.diffuser_exposed_parts",),
-      sources=(Source("effect: 2-5 counts per exposed part (exhaust, tow eye, links); from memory", "from memory"),
-               COOPER))
+      sources=(Effect(2, 5, "{low}-{high} counts per exposed part (exhaust, tow eye, links); from memory",
+                      "from memory"), COOPER))
 def diffuser_exposed(sheet, ctx):
     """
     What it checks: the number of parts (exhaust, tow eye, suspension links, spare-wheel
@@ -128,15 +132,15 @@ def diffuser_exposed(sheet, ctx):
     parts = int(round(sheet.get("underbody.diffuser_exposed_parts")))
     if parts > 0:
         return major(f"{parts} part(s) stand in the diffuser flow", measured=str(parts), limit="0",
-                     counts=counts_range(2 * parts, 5 * parts), cl_rear=-0.01 * parts)
+                     counts=ctx.effect().counts(parts), cl_rear=-0.01 * parts)
     return passed("the diffuser is clean", measured="0", limit="0")
 
 
 @rule("underbody.pitch", "Underbody pitch (nose-up raises front lift)", "advisory",
       needs=("underbody.pitch",),
       thresholds=(Threshold("nose_up", "-0.5 deg", "deg", "pitch below which the underbody opens to the flow", COMMON),),
-      sources=(COMMON, Source("effect: 2-6 counts and about 0.02 more front lift per degree nose-up; from memory",
-                              "from memory")),
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts and about 0.02 more front lift per degree nose-up; from "
+                              "memory", "from memory")),
       sensitivity=Sensitivity("underbody.pitch", -4.0, "deg", (-2, 1), "nose_up", Source(
           "the middle of 2-6 counts per deg nose-up (pitch is positive nose-down)", "from memory")))
 def pitch(sheet, ctx):
@@ -158,7 +162,7 @@ def pitch(sheet, ctx):
     angle = sheet.get("underbody.pitch")
     shown = {"measured": DEG(angle, 1, signed=True), "limit": f">= {DEG(ctx['nose_up'], 1, signed=True)}"}
     if angle < ctx["nose_up"]:
-        return minor("the underbody is pitched nose-up", **shown, counts=counts_range(2, 6),
+        return minor("the underbody is pitched nose-up", **shown, counts=ctx.effect().counts(),
                      cl_front=-0.02 * abs(math.degrees(angle)))
     return passed("the underbody pitch is level or nose-down", **shown)
 
@@ -169,8 +173,11 @@ def pitch(sheet, ctx):
                             COOPER),
                   Threshold("separation", "2.2", "", "exit / inlet height above which the diffuser flow separates",
                             COOPER)),
-      sources=(COOPER, Source("effect: 3-10 counts and part of the rear downforce; recalled, not checked",
-                              "from memory")))
+      sources=(COOPER,
+               Effect(3, 10, "{low}-{high} counts and part of the rear downforce for an over-expanded diffuser; "
+                      "recalled, not checked", "from memory"),
+               Effect(1, 4, "{low}-{high} counts for a diffuser that expands the flow too little; recalled, not "
+                      "checked", "from memory", name="low_ratio")))
 def diffuser_area_ratio(sheet, ctx):
     """
     What it checks: the diffuser's area ratio, its exit height over its inlet height:
@@ -199,11 +206,12 @@ def diffuser_area_ratio(sheet, ctx):
     limit = f"{ctx['useful']:.1f}-{ctx['separation']:.1f}"
     if ratio > ctx["separation"]:
         return major("the diffuser expands the underbody flow more than it can follow", measured=measured,
-                     limit=limit, margin=f"{ratio - ctx['separation']:+.2f}", counts=counts_range(3, 10),
+                     limit=limit, margin=f"{ratio - ctx['separation']:+.2f}", counts=ctx.effect().counts(),
                      cl_rear=-0.03)
     if ratio < ctx["useful"]:
         return minor("the diffuser expands the flow too little to recover much pressure", measured=measured,
-                     limit=limit, margin=f"{ratio - ctx['useful']:+.2f}", counts=counts_range(1, 4), cl_rear=-0.01)
+                     limit=limit, margin=f"{ratio - ctx['useful']:+.2f}", counts=ctx.effect("low_ratio").counts(),
+                     cl_rear=-0.01)
     return passed("the diffuser area ratio is in the useful range", measured=measured, limit=limit)
 
 
@@ -211,7 +219,7 @@ def diffuser_area_ratio(sheet, ctx):
       needs=("underbody.diffuser_end_step",),
       thresholds=(Threshold("step", "30 mm", "mm", "step height above which the diffuser ends in a base pocket",
                             COMMON),),
-      sources=(COMMON, Source("effect: 1-5 counts; recalled, not checked", "from memory")))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts; recalled, not checked", "from memory")))
 def diffuser_end_step(sheet, ctx):
     """
     What it checks: the vertical step from the diffuser's trailing edge up to the lower edge
@@ -233,7 +241,7 @@ def diffuser_end_step(sheet, ctx):
     step = Reading(sheet.get("underbody.diffuser_end_step"), MM, at_most=ctx["step"])
     if step.beyond:
         return minor("the diffuser ends below a tall step: a low-pressure pocket on the bumper", **step.shown(),
-                     counts=counts_range(1, 5))
+                     counts=ctx.effect().counts())
     return passed("the diffuser runs out into the base edge", **step.shown(margin=False))
 
 
@@ -241,7 +249,10 @@ def diffuser_end_step(sheet, ctx):
       needs=("underbody.nose_rake",),
       thresholds=(Threshold("minimum", "1 deg", "deg", "rake below which the nose scoops air under the car", COMMON),
                   Threshold("maximum", "12 deg", "deg", "rake above which the flow separates under the nose", COMMON)),
-      sources=(COMMON, Source("effect: 1-4 counts and 0.01-0.03 of front lift; recalled, not checked", "from memory")))
+      sources=(COMMON,
+               Effect(1, 4, "{low}-{high} counts and 0.01-0.03 of front lift; recalled, not checked", "from memory"),
+               Effect(1, 3, "{low}-{high} counts for a rake steep enough to separate; recalled, not checked",
+                      "from memory", name="steep")))
 def nose_rake(sheet, ctx):
     """
     What it checks: the upward inclination of the front underbody between the air dam and
@@ -264,8 +275,8 @@ def nose_rake(sheet, ctx):
     measured = DEG(rake.value, 1, signed=True)
     if rake.below:
         return minor("the front underbody does not rise toward the nose: more front lift", **rake.shown(measured),
-                     counts=counts_range(1, 4), cl_front=-0.02)
+                     counts=ctx.effect().counts(), cl_front=-0.02)
     if rake.above:
         return minor("the front underbody rises steeply: the flow separates behind the air dam",
-                     **rake.shown(measured), counts=counts_range(1, 3))
+                     **rake.shown(measured), counts=ctx.effect("steep").counts())
     return passed("the front underbody rake is in the useful range", **rake.shown(measured, margin=False))

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from aeroreview.display import MM, PERCENT, Reading
-from aeroreview.rules import COMMON, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, Effect, Sensitivity, Source, Threshold, major, minor, passed, rule
 
 WHEEL_SOURCE = Source("rim design changes a car's drag by 10-20 counts: recalled, not checked. Looked for: SAE 970133 "
                       "(Wickern, Zwicker and Pfadenhauer 1997) is confirmed on a copy of its cover to be on rotating "
@@ -21,8 +21,9 @@ REFERENCE_RIM = 18 * 0.0254  # m: the rim size the counts per openness were reca
       thresholds=(Threshold("open", "35 %", "%", "open share above which the rims pump air", WHEEL_SOURCE),
                   Threshold("closed", "20 %", "%", "open share a low-drag rim reaches", WHEEL_SOURCE)),
       optional=("wheels.rim_diameter",),
-      sources=(WHEEL_SOURCE, WASCHLE, Source("effect: about 3-6 counts per 10 % of openness closed on 18 inch rims, "
-                                             "scaled with the rim disc area; recalled, not checked", "from memory")),
+      sources=(WHEEL_SOURCE, WASCHLE, Effect(3, 6, "about {low}-{high} counts per 10 % of openness closed on 18 inch "
+                                             "rims, scaled with the rim disc area; recalled, not checked",
+                                             "from memory")),
       sensitivity=Sensitivity("wheels.rim_openness", 0.45, "%", (10, 60), "closed", Source(
           "the middle of about 3-6 counts per 10 % of openness", "from memory")))
 def rim_openness(sheet, ctx):
@@ -35,7 +36,7 @@ def rim_openness(sheet, ctx):
     the wheel at twice the vehicle speed. Closing the rim is one of the largest single
     gains on a modern car.
 
-    How to fix: close the rim face to 20 % or less with flat spokes or an aero insert,
+    How to fix: close the rim face to {closed} or less with flat spokes or an aero insert,
     keeping enough opening for brake cooling (check with the brake team).
 
     Known limits: the spoke shape and the rim's outer lip matter beside the open share;
@@ -53,10 +54,10 @@ def rim_openness(sheet, ctx):
     pumping, closed = Reading(openness, PERCENT, at_most=ctx["open"]), Reading(openness, PERCENT, at_most=ctx["closed"])
     if pumping.beyond:
         return major("the rims are open: they pump wheelhouse air into the side flow", **pumping.shown(measured),
-                     counts=counts_range(30 * closable, 60 * closable))
+                     counts=ctx.effect().counts(closable / 0.1))
     if closed.beyond:
         return minor("the rims could be closed further", **closed.shown(measured, margin=False),
-                     counts=counts_range(30 * closable, 60 * closable))
+                     counts=ctx.effect().counts(closable / 0.1))
     return passed("the rims are closed", **closed.shown(measured, margin=False))
 
 
@@ -64,7 +65,9 @@ def rim_openness(sheet, ctx):
       needs=("wheels.front_deflector_height",),
       thresholds=(Threshold("minimum", "15 mm", "mm", "height below which the deflector does little", COMMON),
                   Threshold("maximum", "70 mm", "mm", "height above which its own drag dominates", COMMON)),
-      sources=(COMMON, Source("effect: 2-8 counts; from memory (Hucho 1998, wheel spoilers)", "from memory")))
+      sources=(COMMON, Effect(2, 8, "{low}-{high} counts; from memory (Hucho 1998, wheel spoilers)", "from memory"),
+               Effect(1, 4, "{low}-{high} counts for a deflector above the maximum height (its own drag); from memory",
+                      "from memory", name="tall")))
 def front_deflector(sheet, ctx):
     """
     What it checks: the height of the deflector (tyre spat) ahead of each front tyre.
@@ -85,16 +88,16 @@ def front_deflector(sheet, ctx):
     height = Reading(sheet.get("wheels.front_deflector_height"), MM, at_least=ctx["minimum"], at_most=ctx["maximum"])
     if height.below:
         return minor("no effective deflectors ahead of the front tyres", **height.shown(margin=False),
-                     counts=counts_range(2, 8))
+                     counts=ctx.effect().counts())
     if height.above:
         return minor("the front deflectors are tall enough to add drag of their own", **height.shown(margin=False),
-                     counts=counts_range(1, 4))
+                     counts=ctx.effect("tall").counts())
     return passed("the front tyre deflectors are in the useful range", **height.shown(margin=False))
 
 
 @rule("wheels.rear-strakes", "Strakes ahead of the rear wheels", "advisory",
       needs=("wheels.rear_strakes",),
-      sources=(COMMON, Source("effect: 2-6 counts; from memory", "from memory")))
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts; from memory", "from memory")))
 def rear_strakes(sheet, ctx):
     """
     What it checks: whether strakes or spats stand ahead of the rear tyres.
@@ -113,13 +116,13 @@ def rear_strakes(sheet, ctx):
     """
     if sheet.get("wheels.rear_strakes"):
         return passed("rear strakes are fitted", measured="fitted")
-    return minor("no strakes ahead of the rear tyres", measured="none", limit="fitted", counts=counts_range(2, 6))
+    return minor("no strakes ahead of the rear tyres", measured="none", limit="fitted", counts=ctx.effect().counts())
 
 
 @rule("wheels.wheelhouse-gap", "Gap between tyre and wheel arch", "advisory",
       needs=("wheels.wheelhouse_gap",),
       thresholds=(Threshold("gap", "50 mm", "mm", "gap above which the wheelhouse volume pumps air", COMMON),),
-      sources=(COMMON, Source("effect: 2-8 counts; from memory", "from memory")))
+      sources=(COMMON, Effect(2, 8, "{low}-{high} counts; from memory", "from memory")))
 def wheelhouse_gap(sheet, ctx):
     """
     What it checks: the radial gap between the tyre and the arch lip at the top.
@@ -138,13 +141,13 @@ def wheelhouse_gap(sheet, ctx):
     """
     gap = Reading(sheet.get("wheels.wheelhouse_gap"), MM, at_most=ctx["gap"])
     if gap.beyond:
-        return minor("the wheelhouse gap is large", **gap.shown(margin=False), counts=counts_range(2, 8))
+        return minor("the wheelhouse gap is large", **gap.shown(margin=False), counts=ctx.effect().counts())
     return passed("the wheelhouse is tight", **gap.shown(margin=False))
 
 
 @rule("wheels.wheelhouse-vent", "Front wheelhouse vented to the side", "advisory",
       needs=("wheels.wheelhouse_vented",),
-      sources=(Source("effect: 2-5 counts; from memory (production air breathers)", "from memory"),))
+      sources=(Effect(2, 5, "{low}-{high} counts; from memory (production air breathers)", "from memory"),))
 def wheelhouse_vent(sheet, ctx):
     """
     What it checks: whether the front wheelhouse is vented to the body side behind the arch
@@ -166,14 +169,14 @@ def wheelhouse_vent(sheet, ctx):
     if sheet.get("wheels.wheelhouse_vented"):
         return passed("the front wheelhouse is vented", measured="vented")
     return minor("the front wheelhouse has no outlet behind the wheel", measured="closed", limit="vented",
-                 counts=counts_range(2, 5))
+                 counts=ctx.effect().counts())
 
 
 @rule("wheels.rear-arch-exit", "Rear wheel arch trailing edge", "warning",
       needs=("wheels.rear_arch_exit_radius",),
       thresholds=(Threshold("radius", "10 mm", "mm", "trailing-edge radius above which wheelhouse air is drawn "
                                                    "along the side", COMMON),),
-      sources=(COMMON, Source("effect: 2-6 counts; from memory", "from memory")))
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts; from memory", "from memory")))
 def rear_arch_exit(sheet, ctx):
     """
     What it checks: the radius of the trailing edge of the rear wheel arch, where the
@@ -183,7 +186,7 @@ def rear_arch_exit(sheet, ctx):
     rounded one draws it along the rear quarter into the wake's edge, widening the wake and
     disturbing the side taper.
 
-    How to fix: sharpen the trailing edge of the rear arch (10 mm radius or less), or add a
+    How to fix: sharpen the trailing edge of the rear arch ({radius} radius or less), or add a
     small lip.
 
     Known limits: one radius; the arch liner shape behind it matters too.
@@ -194,21 +197,21 @@ def rear_arch_exit(sheet, ctx):
     """
     radius = Reading(sheet.get("wheels.rear_arch_exit_radius"), MM, at_most=ctx["radius"])
     if radius.beyond:
-        return major("the rear arch trailing edge is rounded", **radius.shown(), counts=counts_range(2, 6))
+        return major("the rear arch trailing edge is rounded", **radius.shown(), counts=ctx.effect().counts())
     return passed("the rear arch trailing edge is sharp", **radius.shown(margin=False))
 
 
-TYRE_SOURCE = Source("wider tyres raise drag by roughly 1-2 counts per 10 mm of section width on a passenger car; "
-                     "recalled, not checked", "from memory")
+TYRE_EFFECT = Effect(1, 2, "wider tyres raise drag by roughly {low}-{high} counts per 10 mm of section width on a "
+                     "passenger car; recalled, not checked", "from memory")
 
 
 @rule("wheels.tyre-width", "Tyre width and the wheel wake", "advisory",
       needs=("wheels.tyre_width", "dimensions.width"), optional=("front.air_curtains", "wheels.front_deflector_height"),
       thresholds=(Threshold("share", "12.5 %", "%", "tyre width / vehicle width above which the wheel wakes widen",
-                            TYRE_SOURCE),
+                            TYRE_EFFECT.source),
                   Threshold("deflector", "15 mm", "mm", "front deflector height that counts as wake treatment",
                             COMMON)),
-      sources=(TYRE_SOURCE, COMMON))
+      sources=(TYRE_EFFECT, COMMON))
 def tyre_width(sheet, ctx):
     """
     What it checks: the tyre section width as a share of the vehicle width, and whether a
@@ -237,7 +240,7 @@ def tyre_width(sheet, ctx):
         excess_mm = (share - ctx["share"]) * sheet.get("dimensions.width") * 1000
         scale = 0.5 if treated else 1.0
         return minor("the tyres are wide for the car: wider wheel wakes", **reading.shown(measured),
-                     counts=counts_range(0.1 * excess_mm * scale, 0.2 * excess_mm * scale))
+                     counts=ctx.effect().counts(excess_mm / 10 * scale))
     return passed("the tyre width suits the car", **reading.shown(measured, margin=False))
 
 
@@ -245,7 +248,7 @@ def tyre_width(sheet, ctx):
       needs=("wheels.tyre_shoulder",),
       sources=(Source("rounded tyre shoulders and smooth sidewalls lower wheel drag by a few counts against square "
                       "shoulders; recalled, not checked", "from memory"),
-               Source("effect: 1-4 counts; recalled, not checked", "from memory")))
+               Effect(1, 4, "{low}-{high} counts; recalled, not checked", "from memory")))
 def tyre_shoulder(sheet, ctx):
     """
     What it checks: whether the tyres fitted have rounded or square shoulders (the
@@ -268,5 +271,5 @@ def tyre_shoulder(sheet, ctx):
     shoulder = sheet.get("wheels.tyre_shoulder")
     if shoulder == "square":
         return minor("square tyre shoulders widen the tyre wake", measured=shoulder, limit="rounded",
-                     counts=counts_range(1, 4))
+                     counts=ctx.effect().counts())
     return passed("the tyre shoulders are rounded", measured=shoulder, limit="rounded")

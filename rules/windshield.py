@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 from aeroreview.display import DEG, MM, Reading
-from aeroreview.rules import COMMON, HUCHO, Sensitivity, Source, Threshold, counts_range, major, minor, passed, rule
+from aeroreview.rules import COMMON, HUCHO, Effect, Sensitivity, Source, Threshold, major, minor, passed, rule
 
 
 @rule("windshield.angle", "Windshield inclination", "warning",
@@ -15,7 +15,8 @@ from aeroreview.rules import COMMON, HUCHO, Sensitivity, Source, Threshold, coun
                   Threshold("steep", "33 deg", "deg", "inclination from horizontal above which gains remain", HUCHO)),
       sources=(Source("Hucho 1998 (chapter not checked): drag falls as the windshield is laid back to about 30 deg "
                       "from horizontal (60 deg rake), with little gain beyond; recalled, not checked", "from memory"),
-               Source("effect: about 1 count per degree above 33 deg, from memory", "from memory")),
+               Effect(0.7, 1.3, "{low}-{high} counts per degree above the steep limit (about 1 count per degree "
+                      "above 33 deg), from memory", "from memory")),
       applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"),
       sensitivity=Sensitivity("windshield.angle", 1.0, "deg", (30, 50), "steep", Source(
           "about 1 count per degree above 33 deg (Hucho 1998, chapter not checked, recalled)", "from memory")))
@@ -45,10 +46,10 @@ def windshield_angle(sheet, ctx):
     over = math.degrees(angle) - math.degrees(ctx["steep"])
     if upright.beyond:
         return major("the windshield is upright; laying it back is a large gain", **upright.shown(measured),
-                     counts=counts_range(0.7 * over, 1.3 * over))
+                     counts=ctx.effect().counts(over))
     if steep.beyond:
         return minor("the windshield is steeper than the usual optimum", **steep.shown(measured),
-                     counts=counts_range(0.7 * over, 1.3 * over))
+                     counts=ctx.effect().counts(over))
     return passed("the windshield is laid back", **steep.shown(measured, margin=False))
 
 
@@ -56,8 +57,11 @@ def windshield_angle(sheet, ctx):
       needs=("windshield.a_pillar_radius",),
       thresholds=(Threshold("sharp", "15 mm", "mm", "radius below which the pillar flow separates", COMMON),
                   Threshold("comfortable", "25 mm", "mm", "radius with margin at yaw", COMMON)),
-      sources=(COMMON, Source("effect: 2-8 counts, and wind noise; from memory (Hucho 1998, A-pillar vortex, chapter not checked)",
-                              "from memory")))
+      sources=(COMMON,
+               Effect(2, 8, "{low}-{high} counts, and wind noise; from memory (Hucho 1998, A-pillar vortex, chapter "
+                      "not checked)", "from memory"),
+               Effect(1, 3, "{low}-{high} counts for a radius between the sharp and the comfortable limit; from memory",
+                      "from memory", name="margin")))
 def a_pillar_radius(sheet, ctx):
     """
     What it checks: the radius of the A-pillar edge between the windshield and the side glass.
@@ -66,7 +70,7 @@ def a_pillar_radius(sheet, ctx):
     adds drag, raises wind noise and soils the side glass. At yaw the leeward pillar
     separates first.
 
-    How to fix: increase the pillar radius (25 mm or more), or shape the glass and the
+    How to fix: increase the pillar radius ({comfortable} or more), or shape the glass and the
     pillar trim so that the transition is continuous.
 
     Known limits: one radius at mid height; drag is less sensitive than wind noise here.
@@ -80,17 +84,17 @@ def a_pillar_radius(sheet, ctx):
     comfortable = Reading(radius, MM, at_least=ctx["comfortable"])
     if sharp.beyond:
         return major("the A-pillar is sharp: strong pillar vortex, drag and wind noise", **sharp.shown(),
-                     counts=counts_range(2, 8))
+                     counts=ctx.effect().counts())
     if comfortable.beyond:
         return minor("the A-pillar radius leaves little margin at yaw", **comfortable.shown(margin=False),
-                     counts=counts_range(1, 3))
+                     counts=ctx.effect("margin").counts())
     return passed("the A-pillar is well rounded", **comfortable.shown(margin=False))
 
 
 @rule("windshield.a-pillar-step", "Step from windshield to A-pillar trim", "warning",
       needs=("windshield.a_pillar_step",),
       thresholds=(Threshold("step", "6 mm", "mm", "step height above which the pillar acts as a fence", COMMON),),
-      sources=(COMMON, Source("effect: 1-5 counts; from memory", "from memory")))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts; from memory", "from memory")))
 def a_pillar_step(sheet, ctx):
     """
     What it checks: the height of the step from the windshield surface to the A-pillar
@@ -100,7 +104,7 @@ def a_pillar_step(sheet, ctx):
     vortex; it adds drag and is a leading source of wind noise.
 
     How to fix: bring the glass flush with the pillar (flush glazing), or keep the gutter
-    below 6 mm and round its edge.
+    below {step} and round its edge.
 
     Known limits: water management may need a gutter; the rule does not weigh that.
 
@@ -110,14 +114,14 @@ def a_pillar_step(sheet, ctx):
     """
     step = Reading(sheet.get("windshield.a_pillar_step"), MM, at_most=ctx["step"], places=1)
     if step.beyond:
-        return major("the A-pillar step is deep enough to trip the flow", **step.shown(), counts=counts_range(1, 5))
+        return major("the A-pillar step is deep enough to trip the flow", **step.shown(), counts=ctx.effect().counts())
     return passed("the glazing is flush enough", **step.shown(margin=False))
 
 
 @rule("windshield.header-radius", "Windshield header radius", "advisory",
       needs=("windshield.header_radius",),
       thresholds=(Threshold("radius", "60 mm", "mm", "header radius below which the roof flow may separate", COMMON),),
-      sources=(COMMON, Source("effect: 1-5 counts; from memory", "from memory")))
+      sources=(COMMON, Effect(1, 5, "{low}-{high} counts; from memory", "from memory")))
 def header_radius(sheet, ctx):
     """
     What it checks: the radius of the windshield-to-roof transition (the header).
@@ -125,7 +129,7 @@ def header_radius(sheet, ctx):
     Why it matters: the flow accelerates strongly over the header; a tight radius can
     separate it, thickening the boundary layer that reaches the rear of the roof.
 
-    How to fix: soften the header radius (60 mm or more), or lay the windshield back.
+    How to fix: soften the header radius ({radius} or more), or lay the windshield back.
 
     Known limits: a small radius may still hold attached flow on a well laid-back screen.
 
@@ -135,13 +139,13 @@ def header_radius(sheet, ctx):
     """
     radius = Reading(sheet.get("windshield.header_radius"), MM, at_least=ctx["radius"])
     if radius.beyond:
-        return minor("the header radius is tight", **radius.shown(margin=False), counts=counts_range(1, 5))
+        return minor("the header radius is tight", **radius.shown(margin=False), counts=ctx.effect().counts())
     return passed("the header radius is generous", **radius.shown(margin=False))
 
 
 @rule("windshield.wipers", "Wipers parked out of the flow", "advisory",
       needs=("windshield.wipers_concealed",),
-      sources=(Source("effect: 1-3 counts; from memory", "from memory"),))
+      sources=(Effect(1, 3, "{low}-{high} counts; from memory", "from memory"),))
 def wipers(sheet, ctx):
     """
     What it checks: whether the parked wipers sit below the hood trailing edge.
@@ -160,4 +164,4 @@ def wipers(sheet, ctx):
     if sheet.get("windshield.wipers_concealed"):
         return passed("the wipers are concealed", measured="concealed")
     return minor("the parked wipers stand in the flow", measured="exposed", limit="concealed",
-                 counts=counts_range(1, 3))
+                 counts=ctx.effect().counts())

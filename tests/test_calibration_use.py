@@ -19,7 +19,7 @@ import pytest
 import yaml
 
 from aeroreview.review import run_rule
-from aeroreview.rules import Context, all_rules
+from aeroreview.rules import all_rules
 from aeroreview.settings import load_settings
 from aeroreview.sheet import load_sheet
 from aeroreview.sheetcheck import Value
@@ -151,8 +151,7 @@ def _diffuser(degrees: float, edge: float = 10.0):
     """The diffuser finding of the Tessel r1 at ``degrees``, fixed to the rule's ``edge`` [deg]."""
     sheet = replace(TESSEL, features={**TESSEL.features, "underbody.diffuser_angle": Value(math.radians(degrees))})
     context = next(ctx for rule, ctx, _ in SETTINGS.rule_plan if rule.id == RULE.id)
-    context = Context({**context.thresholds, "edge": math.radians(edge)}, context.reference_speed, context.density,
-                      context.kinematic_viscosity)
+    context = replace(context, thresholds={**context.thresholds, "edge": math.radians(edge)})
     return run_rule(RULE, sheet, context, RULE.severity, SETTINGS.calibrated)
 
 

@@ -56,7 +56,8 @@ def test_every_threshold_at_either_end_of_its_range_runs_without_raising():
     crashed = []
     for rule, threshold, end in ENDS:
         value = to_si(f"{end!r} {threshold.unit}".strip(), threshold.unit)
-        context = Context({**rule.defaults(), threshold.name: value}, 130 / 3.6, air.density, air.kinematic_viscosity)
+        context = Context({**rule.defaults(), threshold.name: value}, 130 / 3.6, air.density, air.kinematic_viscosity,
+                          rule.effects)
         for sheet in sheets:
             if not rule.applies(sheet):
                 continue
@@ -83,3 +84,37 @@ def test_the_fix_text_takes_the_configured_thresholds(tmp_path):
     run = run_cli("check", VEHICLES / "tessel" / "r1.yaml", "--config", config, "--format", "json")
     fix = json.loads(run.out)["rules"]["rear.backlight-angle"]["fix"]  # findings name their rule; its fix is listed once
     assert "from 27 deg to 33 deg" in fix and "26 deg" not in fix, fix
+
+
+def _restated_defaults():
+    """(rule, threshold, text) where a rule's prose writes a threshold's default value instead of ``{name}``."""
+    import re
+
+    from aeroreview.rules import all_rules, parse_doc
+
+    for rule in all_rules().values():
+        fix_and_checks = {heading: text for heading, text in parse_doc(rule.check.__doc__ or "").items()
+                          if heading in ("What it checks", "How to fix")}
+        for threshold in rule.thresholds:
+            number, _, unit = threshold.default.partition(" ")
+            pattern = r"(?<![\d.])" + re.escape(number) + (r"\s*" + re.escape(unit) if unit else r"(?![\d.])")
+            for heading, text in fix_and_checks.items():
+                if re.search(pattern, text):
+                    yield rule.id, threshold.name, heading
+
+
+def test_no_fix_or_check_text_restates_a_default_threshold():
+    """A team that moves a threshold must read its own value in the fix (write ``{name}``, DEVELOPERS.md)."""
+    restated = [f"{rule_id}: '{heading}' writes the default of {name}; write {{{name}}}"
+                for rule_id, name, heading in _restated_defaults()]
+    assert not restated, "\n".join(restated)
+
+
+def test_a_moved_threshold_moves_every_number_of_the_fix(tmp_path):
+    """Rims closed to 15 % instead of 20 %: the finding's fix asks for 15 %."""
+    import json
+
+    config = config_file(tmp_path, "        wheels.rim-openness: {thresholds: {closed: 15 %}}\n")
+    run = run_cli("check", VEHICLES / "tessel" / "r1.yaml", "--config", config, "--format", "json")
+    fix = json.loads(run.out)["rules"]["wheels.rim-openness"]["fix"]
+    assert "close the rim face to 15 % or less" in fix and "20 %" not in fix, fix
