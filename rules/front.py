@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 from aeroreview.display import DEG, MM, PERCENT, Reading
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Effect, Source, Threshold, body_scale, front_face_height,
-                              major, minor, passed, rule)
+from aeroreview.rules import COMMON, HUCHO, Effect, Source, Threshold, major, minor, passed, rule
+from aeroreview.rules.body import BOX_CLASSES, body_scale, front_face_height
 
 EDGE_SOURCE = Source("Hucho 1998, front-edge rounding on box-like bodies (chapter not checked): drag falls steeply "
                      "with the edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled, "
@@ -26,8 +26,8 @@ def _edge_effects(van_like: tuple[float, float], car: tuple[float, float]) -> tu
         effects += [Effect(low, high, "{low}-{high} counts on " + bodies + " with a separated edge, times the radius "
                            "shortfall; from memory (Hucho 1998, chapter not checked)", "from memory", name=body),
                     Effect(0.1 * low, 0.2 * high, "{low}-{high} counts on " + bodies + " with the radius between the "
-                           "attached and the comfortable ratio (a tenth to a fifth of the separated range); from memory",
-                           "from memory", name=body + "_near")]
+                           "attached and the comfortable ratio (a tenth to a fifth of the separated range); from "
+                           "memory", "from memory", name=body + "_near")]
     return tuple(effects)
 
 

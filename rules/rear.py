@@ -6,8 +6,9 @@ import math
 
 from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd, ahmed_uncertainty
 from aeroreview.display import DEG, M2, MM, PERCENT, Reading
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Effect, Sensitivity, Source, Threshold,
-                              body_scale, major, minor, passed, rule)
+from aeroreview.rules import (COMMON, HUCHO, HUCHO_SOVRAN, Effect, Sensitivity, Source, Threshold, major, minor,
+                              passed, rule)
+from aeroreview.rules.body import BOX_CLASSES, body_scale
 
 AHMED = Source(AHMED_SOURCE + ", SAE Transactions 93 (1984) 473-503 (title/authors/year/venue and abstract checked "
                "on a copy of the first page): critical slant angle about 30 deg, drag peak just below it; curve "
