@@ -140,3 +140,18 @@ def test_the_yaw_rules_and_the_figure_read_the_sweep_of_record(marked, status):
     rise = next(f for f in review.findings if f.rule.id == "stability.yaw-drag-rise")
     assert rise.status == status, rise.verdict.measured
     assert yaw_sweep(review, 100 / 3.6).label == f"{marked} sweep"
+
+
+def test_a_yaw_table_with_moments_feeds_the_yawing_moment_rule(tessel, cli):
+    """Side force and yawing moment columns reach the sheet (they were dropped before, so the
+    stability.yaw-moment rule could never read a merged sweep). A rise of cym of 0.05 from 0 to 10 deg
+    is inside the usual 0.04-0.06 (the rule's source, rules/crosswind.py): it passes."""
+    sheet = tessel / "r1.yaml"  # no sweep of its own
+    table = tessel / "cfd" / "yaw.csv"
+    table.write_text("# invented tunnel sweep\nyaw,cd,cs,cmz\n-10,0.262,-0.40,-0.050\n0,0.236,0.0,0.0\n"
+                     "5,0.241,0.20,0.025\n10,0.263,0.40,0.050\n", encoding="utf-8")
+    assert cli("results", "yaw", table, "--speed", "140", "--sheet", sheet).code == 0
+    points = load_sheet(sheet).results[-1].yaw_sweep
+    assert [(p.cs, p.cym) for p in points] == [(-0.40, -0.050), (0.0, 0.0), (0.20, 0.025), (0.40, 0.050)]
+    moment = finding(sheet, "stability.yaw-moment")
+    assert moment.status == "pass" and "0.050" in moment.verdict.measured, moment.verdict.measured
