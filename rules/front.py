@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from aeroreview.display import DEG, MM, PERCENT, Reading
+from aeroreview.display import DEG, MM, PERCENT, RATIO, Reading
 from aeroreview.rules import COMMON, HUCHO, Effect, Source, Threshold, major, minor, passed, rule
 from aeroreview.rules.body import BOX_CLASSES, body_scale, front_face_height
 
@@ -38,17 +38,23 @@ def _edge_rule(sheet, ctx, key: str, what: str, face=None):
     ratio = radius / scale
     boxy = sheet.get("vehicle.class") in BOX_CLASSES
     body = "van_like" if boxy else "car"
-    measured = f"r / {against} = {ratio:.3f} ({MM(radius)} on {MM(scale)})"
-    if ratio < ctx["attached_ratio"]:
+    attached, comfortable = (Reading(ratio, RATIO, at_least=ctx[name], places=3, limit_places=3)
+                             for name in ("attached_ratio", "comfortable_ratio"))
+    if attached.beyond:
         shortfall = 1 - ratio / ctx["attached_ratio"]
         return major(f"{what} radius is small for the body size: the flow separates at the edge",
-                     measured=measured, limit=f">= {ctx['attached_ratio']:.3f}", margin=f"{ratio - ctx['attached_ratio']:+.3f}",
+                     **attached.shown(_edge_measured(against, attached, radius, scale)),
                      counts=ctx.effect(body).counts(shortfall))
-    if ratio < ctx["comfortable_ratio"]:
+    if comfortable.beyond:
         return minor(f"{what} radius is near the limit where the flow stays attached",
-                     measured=measured, limit=f">= {ctx['comfortable_ratio']:.3f}",
-                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=ctx.effect(body + "_near").counts())
-    return passed(f"{what} radius keeps the flow attached", measured=measured, limit=f">= {ctx['attached_ratio']:.3f}")
+                     **comfortable.shown(_edge_measured(against, comfortable, radius, scale)),
+                     counts=ctx.effect(body + "_near").counts())
+    return passed(f"{what} radius keeps the flow attached",
+                  **attached.shown(_edge_measured(against, attached, radius, scale), margin=False))
+
+
+def _edge_measured(against: str, reading: Reading, radius: float, scale: float) -> str:
+    return f"r / {against} = {RATIO(reading.value, reading.digits)} ({MM(radius)} on {MM(scale)})"
 
 
 _EDGE_THRESHOLDS = (

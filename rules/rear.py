@@ -317,7 +317,7 @@ def base_area(sheet, ctx):
     share = sheet.get("rear.base_area") / sheet.get("dimensions.frontal_area")
     limit_share = ctx["box_share"] if sheet.get("vehicle.class") in BOX_CLASSES else ctx["car_share"]
     reading = Reading(share, PERCENT, at_most=limit_share)
-    measured = f"{PERCENT(share)} of A ({M2(sheet.get('rear.base_area'), 2)})"
+    measured = f"{PERCENT(share, reading.digits)} of A ({M2(sheet.get('rear.base_area'), 2)})"
     if reading.beyond:
         excess = share - limit_share
         return minor("the base is large: its wake pressure acts on a large area", **reading.shown(measured),
