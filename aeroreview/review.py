@@ -128,17 +128,20 @@ def _status(level: str, severity: str) -> str:
     return STATUSES[max(1, STATUSES.index(severity) - 1)]
 
 
-def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str, calibrated: dict | None = None) -> Finding:
+def run_rule(rule: Rule, sheet: Sheet, context: Context, severity: str, calibrated: dict | None = None,
+             fix: str | None = None) -> Finding:
     """One rule on one sheet; missing features give "not assessed", never an exception.
 
-    ``calibrated`` (:func:`aeroreview.calibration.index`) re-costs the fix with the team's slope.
+    ``calibrated`` (:func:`aeroreview.calibration.index`) re-costs the fix with the team's slope;
+    ``fix`` is the fix text with the context's thresholds (:attr:`Settings.fixes`), written here when not given.
     """
     missing = tuple(key for key in rule.needs if key not in sheet.features)
     if missing:
         verdict = Verdict(NOT_ASSESSED, f"not assessed: missing {', '.join(missing)}", missing=missing)
     else:
         verdict = rule.check(sheet, context)
-    finding = Finding(rule, _status(verdict.level, severity), severity, verdict, fix=rule.fix_for(context.thresholds))
+    finding = Finding(rule, _status(verdict.level, severity), severity, verdict,
+                      fix=rule.fix_for(context.thresholds) if fix is None else fix)
     if calibrated:
         recost(finding, sheet, context, calibrated)
     return finding
@@ -206,7 +209,8 @@ def review_sheet(sheet: Sheet, settings: Settings, today: _dt.date | None = None
     air = settings.air()
     if sheet.geometry:  # measured once per surface and options (cached), handed to its data-quality rule
         sheet.surface = sheetsurface.measured(sheet, sheetsurface.cache_folder(settings.root)).values
-    findings = {rule.id: run_rule(rule, sheet, context, severity, settings.calibrated)
+    fixes = settings.fixes
+    findings = {rule.id: run_rule(rule, sheet, context, severity, settings.calibrated, fixes[rule.id])
                 for rule, context, severity in settings.rule_plan if rule.applies(sheet)}
     notices = _apply_waivers(sheet, findings, today)
 

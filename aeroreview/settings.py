@@ -91,6 +91,11 @@ class Settings:
         return plan
 
     @cached_property
+    def fixes(self) -> dict[str, str]:
+        """Each enabled rule's fix text with its thresholds in place: the same on every sheet, so written once."""
+        return {rule.id: rule.fix_for(context.thresholds) for rule, context, _ in self.rule_plan}
+
+    @cached_property
     def calibrated(self) -> dict:
         """Each calibrated feature's team drag slopes, with their scopes (:func:`aeroreview.calibration.index`)."""
         return calibration.index(self.calibrations)

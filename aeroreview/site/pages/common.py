@@ -24,13 +24,13 @@ CAUTION = ("!!! warning \"Cautions\"\n"
            "    confirm every change by validated CFD, wind-tunnel and road testing, follow your local vehicle\n"
            "    regulations (aftermarket body parts included), and have changes approved by licensed engineers.\n")
 # HTML's special characters and Markdown's, each replaced by a character entity in one pass.
-_INERT = {**{c: f"&#{ord(c)};" for c in "\\`*_{}[]()#+-!|~"},
-          "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#x27;"}
+_INERT = str.maketrans({**{c: f"&#{ord(c)};" for c in "\\`*_{}[]()#+-!|~"},
+                        "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#x27;"})
 
 
 def esc(text) -> str:
     """Sheet text made inert: HTML and Markdown specials as entities, folded onto one line."""
-    return " ".join("".join(_INERT.get(c, c) for c in str(text)).split())
+    return " ".join(str(text).translate(_INERT).split())
 
 
 def heading(text: str) -> str:
