@@ -29,6 +29,7 @@ from aeroreview.results.evidence import Buildup, BuildupChange, HistoryFigure
 from aeroreview.results.history import team_limits
 from aeroreview.review import Finding, Review
 from aeroreview.rules import NOT_ASSESSED, Context, all_rules
+from aeroreview.rules.crosswind import swept_result
 from aeroreview.rules.stability import axle_figures
 from aeroreview.settings import Settings, status_rank
 
@@ -178,8 +179,9 @@ def lift_series(review: Review, speeds: list[float], top: float, context: Contex
 
 
 def yaw_sweep(review: Review, speed: float) -> YawSweep | None:
-    """The first result with a yaw sweep of two points or more, averaged at ``speed`` [m/s]."""
-    result = next((r for r in review.sheet.results if len(r.yaw_sweep) >= 2), None)
+    """The sweep the crosswind rules read (:func:`aeroreview.rules.crosswind.swept_result`), averaged at
+    ``speed`` [m/s]."""
+    result = swept_result(review.sheet)
     if result is None:
         return None
     yaw = [p.yaw for p in result.yaw_sweep]

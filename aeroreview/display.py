@@ -25,11 +25,11 @@ class Unit:
         return f"{value * self.per_si:{'+' if signed else ''}{'g' if places is None else f'.{places}f'}}"
 
     def __call__(self, value: float, places: int | None = 0, signed: bool = False) -> str:
-        return f"{self.number(value, places, signed)} {self.symbol}"
+        return f"{self.number(value, places, signed)} {self.symbol}".rstrip()
 
     def span(self, low: float, high: float, places: int = 0) -> str:
         """A range such as ``15-70 mm``."""
-        return f"{self.number(low, places)}-{self.number(high, places)} {self.symbol}"
+        return f"{self.number(low, places)}-{self.number(high, places)} {self.symbol}".rstrip()
 
 
 MM = Unit("mm", 1000.0)
@@ -39,6 +39,7 @@ DEG = Unit("deg", 180.0 / math.pi)  # the factor math.degrees uses
 PERCENT = Unit("%", 100.0)
 KM_H = Unit("km/h", 3.6)
 KG = Unit("kg", 1.0)
+RATIO = Unit("", 1.0)  # a dimensionless ratio (r / sqrt(A), an area ratio), shown bare
 COUNTS = Unit("counts", 1000.0)  # 1 drag count = 0.001 of a coefficient (common practice)
 
 
@@ -68,6 +69,17 @@ class Reading:
         return self.below or self.above
 
     @property
+    def digits(self) -> int:
+        """Decimals that tell the value from a limit it crosses: ``places``, or up to three more where
+        the value would read as its limit (2.52 % against 2.5 % reads 2.52 %, not 2.5 %)."""
+        limit = self.at_most if self.above else self.at_least if self.below else None
+        places = self.places
+        while limit is not None and places < self.places + 3 and \
+                self.unit(self.value, places) == self.unit(limit, max(places, self.limit_places)):
+            places += 1
+        return places
+
+    @property
     def bound(self) -> str:
         """The limit as a finding shows it: ``<= 60 mm``, ``>= 15 mm`` or ``6-20 deg``."""
         if self.at_least is not None and self.at_most is not None:
@@ -82,9 +94,9 @@ class Reading:
         else from the only limit; None inside a range."""
         one = self.at_least if self.at_most is None else self.at_most if self.at_least is None else None
         limit = self.at_most if self.above else self.at_least if self.below else one
-        return None if limit is None else self.unit(self.value - limit, self.places, signed=True)
+        return None if limit is None else self.unit(self.value - limit, self.digits, signed=True)
 
     def shown(self, measured: str | None = None, margin: bool = True) -> dict[str, str | None]:
         """A finding's ``measured``, ``limit`` and ``margin`` (``measured`` replaces the bare value)."""
-        return {"measured": measured or self.unit(self.value, self.places), "limit": self.bound,
+        return {"measured": measured or self.unit(self.value, self.digits), "limit": self.bound,
                 "margin": self.margin if margin else None}

@@ -27,8 +27,8 @@ from aeroreview.calc.roadload import Vehicle, cycle_energy, range_km, sensitivit
 from aeroreview.calibration import recost, team_source
 from aeroreview.estimate import Estimate, Frame, claim_of, estimate, frame_for, score
 from aeroreview.problems import Problem
-from aeroreview.rules import (FRONTAL_AREA_FACTOR, NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Source, Verdict,
-                              actionable)
+from aeroreview.rules import NOT_ASSESSED, STATUSES, ZONES, Context, Rule, Source, Verdict, actionable
+from aeroreview.rules.body import FRONTAL_AREA_FACTOR
 from aeroreview.rules.data import CLASS_CD
 from aeroreview.rules.result_quality import measured_cd
 from aeroreview.rules.stability import axle_figures

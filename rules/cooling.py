@@ -51,16 +51,17 @@ def inlet_area(sheet, ctx):
     if required <= 0:
         return passed("no cooling requirement given (no inlets needed)", measured=M2(inlet, 3))
     ratio = inlet / required
-    measured = f"{M2(inlet, 3)} = {PERCENT(ratio)} of the required {M2(required, 3)}"
-    if ratio < ctx["undersize"]:
+    small, large = Reading(ratio, PERCENT, at_least=ctx["undersize"]), Reading(ratio, PERCENT, at_most=ctx["oversize"])
+    measured = f"{M2(inlet, 3)} = {PERCENT(ratio, max(small.digits, large.digits))} of the required {M2(required, 3)}"
+    if small.beyond:
         return major("the cooling inlet is smaller than the thermal requirement: cooling is at risk",
-                     **Reading(ratio, PERCENT, at_least=ctx["undersize"]).shown(measured))
-    if ratio > ctx["oversize"]:
+                     **small.shown(measured))
+    if large.beyond:
         surplus = inlet - required * ctx["oversize"]
         shutters = sheet.get("cooling.shutters") or "none"
         controlled = shutters == "active" and sheet.get("cooling.ducts_sealed") is True
         open_share = OPEN_SHARE[shutters]
-        extra = dict(Reading(ratio, PERCENT, at_most=ctx["oversize"]).shown(measured),
+        extra = dict(large.shown(measured),
                      counts=ctx.effect().counts(surplus / INLET_EFFECT_AREA * open_share),
                      details={"open_share": open_share})
         if controlled:
@@ -178,7 +179,7 @@ def inlet_share(sheet, ctx):
     kind = sheet.get("powertrain.kind")
     share, limit_share = sheet.get("cooling.inlet_area") / sheet.get("dimensions.frontal_area"), ctx[kind]
     reading = Reading(share, PERCENT, at_most=limit_share, places=1, limit_places=1)
-    measured = f"{PERCENT(share, 1)} of A ({kind})"
+    measured = f"{PERCENT(share, reading.digits)} of A ({kind})"
     if reading.beyond:
         surplus = (share - limit_share) * sheet.get("dimensions.frontal_area")
         return major(f"the cooling inlets are large for {'an' if kind[0] in 'aeiou' else 'a'} {kind} powertrain",

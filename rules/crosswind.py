@@ -15,19 +15,31 @@ import numpy as np
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
 from aeroreview.display import KM_H, PERCENT, Reading
 from aeroreview.rules import COMMON, Effect, Source, Threshold, major, minor, not_assessed, passed, rule
+from aeroreview.rules.result_quality import result_of_record
 
 YAW_SOURCE = Source("crosswind sensitivity of axle lift; from memory (Hucho 1998, crosswind, chapter not checked)",
                     "from memory")
 
 
+def swept_result(sheet):
+    """The result whose yaw sweep the review reads: the result of record among those with a sweep of two
+    points or more (:func:`aeroreview.rules.result_quality.result_of_record`); None without one.
+
+    One sweep, not a blend: a tunnel and a CFD sweep of one revision differ in ground simulation and
+    blockage, so averaging them would describe neither.
+    """
+    return result_of_record([r for r in sheet.results if len(r.yaw_sweep) >= 2])
+
+
 def sweep_at(sheet, field: str, angle: float, odd: bool = False) -> tuple[float, float] | None:
-    """``field`` of the yaw sweeps (|yaw| folded) interpolated at 0 and ``angle`` [deg]; None if not covered.
+    """``field`` of the swept result's sweep (|yaw| folded) at 0 and ``angle`` [deg]; None if not covered.
 
     ``odd``: the field changes sign with yaw (side force, yawing moment), so it is folded with
     the sign of yaw; otherwise (drag, lift) +yaw and -yaw are averaged as they are.
     """
+    result = swept_result(sheet)
     by_angle: dict[float, list[float]] = {}
-    for point in (p for r in sheet.results for p in r.yaw_sweep if getattr(p, field) is not None):
+    for point in (p for p in (result.yaw_sweep if result else ()) if getattr(p, field) is not None):
         sign = -1.0 if odd and point.yaw < 0 else 1.0
         by_angle.setdefault(round(abs(math.degrees(point.yaw)), 6), []).append(sign * getattr(point, field))
     if not by_angle or min(by_angle) > 0 or max(by_angle) < angle:
@@ -207,10 +219,10 @@ def wind_averaged_drag(sheet, ctx):
             [{yaw: 0 deg, cd: 0.2320}, {yaw: 4 deg, cd: 0.2394}, {yaw: 8 deg, cd: 0.2468}, {yaw: -4 deg, cd: 0.2394}, {yaw:
             -8 deg, cd: 0.2468}]}]}
     """
-    sweeps = [r for r in sheet.results if len(r.yaw_sweep) >= 2]
-    if not sweeps:
+    result = swept_result(sheet)
+    if result is None:
         return not_assessed("needs a yaw sweep", missing=("results[].yaw_sweep",))
-    sweep = max(sweeps, key=lambda r: len(r.yaw_sweep)).yaw_sweep
+    sweep = result.yaw_sweep
     yaw, cd = np.array([p.yaw for p in sweep]), np.array([p.cd for p in sweep])
     if np.abs(yaw).max() < max_yaw(ctx["speed"], J1252_WIND_SPEED) or np.abs(yaw).min() > 0:
         return not_assessed("the yaw sweep does not reach the yaw the J1252 wind gives", missing=("results[].yaw_sweep",))

@@ -265,7 +265,7 @@ def cfd_tunnel_correlation(sheet, ctx):
     tunnel = [r for r in sheet.results if r.kind == "tunnel" and r.scale == 1.0]
     if not cfd or not tunnel:
         return passed("no CFD and full-scale tunnel pair to compare", measured="no pair")
-    gap, a, b = max((abs(c.cd - t.cd), c, t) for c in cfd for t in tunnel)
+    gap, a, b = max(((abs(c.cd - t.cd), c, t) for c in cfd for t in tunnel), key=lambda pair: pair[0])
     measured = f"|Cd CFD - Cd tunnel| = {COUNTS(gap, 1)} ({a.label} vs {b.label})"
     limit = f"<= {COUNTS(ctx['difference'], None)}"
     if gap > ctx["difference"]:

@@ -43,7 +43,7 @@ def decklid_length(sheet, ctx):
     """
     length = sheet.get("rear.decklid_length")
     share = Reading(length / sheet.get("dimensions.length"), PERCENT, at_least=ctx["share"], places=1)
-    measured = f"{PERCENT(share.value, 1)} of the length ({MM(length)})"
+    measured = f"{PERCENT(share.value, share.digits)} of the length ({MM(length)})"
     if share.beyond:
         return minor("the decklid is short: the backlight flow has no deck to reattach to", **share.shown(measured),
                      counts=ctx.effect().counts(), cl_rear=-0.02)

@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from aeroreview.display import DEG, MM, PERCENT, Reading
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, Effect, Source, Threshold, body_scale, front_face_height,
-                              major, minor, passed, rule)
+from aeroreview.display import DEG, MM, PERCENT, RATIO, Reading
+from aeroreview.rules import COMMON, HUCHO, Effect, Source, Threshold, major, minor, passed, rule
+from aeroreview.rules.body import BOX_CLASSES, body_scale, front_face_height
 
 EDGE_SOURCE = Source("Hucho 1998, front-edge rounding on box-like bodies (chapter not checked): drag falls steeply "
                      "with the edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled, "
@@ -26,8 +26,8 @@ def _edge_effects(van_like: tuple[float, float], car: tuple[float, float]) -> tu
         effects += [Effect(low, high, "{low}-{high} counts on " + bodies + " with a separated edge, times the radius "
                            "shortfall; from memory (Hucho 1998, chapter not checked)", "from memory", name=body),
                     Effect(0.1 * low, 0.2 * high, "{low}-{high} counts on " + bodies + " with the radius between the "
-                           "attached and the comfortable ratio (a tenth to a fifth of the separated range); from memory",
-                           "from memory", name=body + "_near")]
+                           "attached and the comfortable ratio (a tenth to a fifth of the separated range); from "
+                           "memory", "from memory", name=body + "_near")]
     return tuple(effects)
 
 
@@ -38,17 +38,23 @@ def _edge_rule(sheet, ctx, key: str, what: str, face=None):
     ratio = radius / scale
     boxy = sheet.get("vehicle.class") in BOX_CLASSES
     body = "van_like" if boxy else "car"
-    measured = f"r / {against} = {ratio:.3f} ({MM(radius)} on {MM(scale)})"
-    if ratio < ctx["attached_ratio"]:
+    attached, comfortable = (Reading(ratio, RATIO, at_least=ctx[name], places=3, limit_places=3)
+                             for name in ("attached_ratio", "comfortable_ratio"))
+    if attached.beyond:
         shortfall = 1 - ratio / ctx["attached_ratio"]
         return major(f"{what} radius is small for the body size: the flow separates at the edge",
-                     measured=measured, limit=f">= {ctx['attached_ratio']:.3f}", margin=f"{ratio - ctx['attached_ratio']:+.3f}",
+                     **attached.shown(_edge_measured(against, attached, radius, scale)),
                      counts=ctx.effect(body).counts(shortfall))
-    if ratio < ctx["comfortable_ratio"]:
+    if comfortable.beyond:
         return minor(f"{what} radius is near the limit where the flow stays attached",
-                     measured=measured, limit=f">= {ctx['comfortable_ratio']:.3f}",
-                     margin=f"{ratio - ctx['comfortable_ratio']:+.3f}", counts=ctx.effect(body + "_near").counts())
-    return passed(f"{what} radius keeps the flow attached", measured=measured, limit=f">= {ctx['attached_ratio']:.3f}")
+                     **comfortable.shown(_edge_measured(against, comfortable, radius, scale)),
+                     counts=ctx.effect(body + "_near").counts())
+    return passed(f"{what} radius keeps the flow attached",
+                  **attached.shown(_edge_measured(against, attached, radius, scale), margin=False))
+
+
+def _edge_measured(against: str, reading: Reading, radius: float, scale: float) -> str:
+    return f"r / {against} = {RATIO(reading.value, reading.digits)} ({MM(radius)} on {MM(scale)})"
 
 
 _EDGE_THRESHOLDS = (

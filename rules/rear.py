@@ -6,8 +6,9 @@ import math
 
 from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd, ahmed_uncertainty
 from aeroreview.display import DEG, M2, MM, PERCENT, Reading
-from aeroreview.rules import (BOX_CLASSES, COMMON, HUCHO, HUCHO_SOVRAN, Effect, Sensitivity, Source, Threshold,
-                              body_scale, major, minor, passed, rule)
+from aeroreview.rules import (COMMON, HUCHO, HUCHO_SOVRAN, Effect, Sensitivity, Source, Threshold, major, minor,
+                              passed, rule)
+from aeroreview.rules.body import BOX_CLASSES, body_scale
 
 AHMED = Source(AHMED_SOURCE + ", SAE Transactions 93 (1984) 473-503 (title/authors/year/venue and abstract checked "
                "on a copy of the first page): critical slant angle about 30 deg, drag peak just below it; curve "
@@ -316,7 +317,7 @@ def base_area(sheet, ctx):
     share = sheet.get("rear.base_area") / sheet.get("dimensions.frontal_area")
     limit_share = ctx["box_share"] if sheet.get("vehicle.class") in BOX_CLASSES else ctx["car_share"]
     reading = Reading(share, PERCENT, at_most=limit_share)
-    measured = f"{PERCENT(share)} of A ({M2(sheet.get('rear.base_area'), 2)})"
+    measured = f"{PERCENT(share, reading.digits)} of A ({M2(sheet.get('rear.base_area'), 2)})"
     if reading.beyond:
         excess = share - limit_share
         return minor("the base is large: its wake pressure acts on a large area", **reading.shown(measured),

@@ -71,12 +71,13 @@ def _unloading(sheet, ctx, axle: str):
     strict = sheet.get("vehicle.class") in STRICT_CLASSES or sheet.get("powertrain.top_speed") > ctx["fast"]
     factor = STRICT_FACTOR if strict else 1.0
     ctx = {"major_share": ctx["major_share"] * factor, "minor_share": ctx["minor_share"] * factor}
-    measured = (f"{PERCENT(share, 1, signed=True)} of the static {axle} axle load ({KG(kg, signed=True)}) at "
+    unacceptable = Reading(share, PERCENT, at_most=ctx["major_share"], places=1)
+    noticeable = Reading(share, PERCENT, at_most=ctx["minor_share"], places=1)
+    shown_share = PERCENT(share, max(unacceptable.digits, noticeable.digits), signed=True)
+    measured = (f"{shown_share} of the static {axle} axle load ({KG(kg, signed=True)}) at "
                 f"{KM_H(sheet.get('powertrain.top_speed'))}; {KG(reference.kg(axle), signed=True)} at "
                 f"{KM_H(reference_speed)}")
     details = {"top_speed": top, "reference_speed": reference, "strict_limits": strict}
-    unacceptable = Reading(share, PERCENT, at_most=ctx["major_share"], places=1)
-    noticeable = Reading(share, PERCENT, at_most=ctx["minor_share"], places=1)
     if unacceptable.beyond:
         return major(f"the {axle} axle loses more than {PERCENT(ctx['major_share'])} of its load at top speed",
                      **unacceptable.shown(measured), details=details)

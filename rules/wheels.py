@@ -235,7 +235,8 @@ def tyre_width(sheet, ctx):
     treated = bool(sheet.get("front.air_curtains")) or \
         (sheet.get("wheels.front_deflector_height") or 0.0) >= ctx["deflector"]
     reading = Reading(share, PERCENT, at_most=ctx["share"], places=1, limit_places=1)
-    measured = f"{MM(width)} = {PERCENT(share, 1)} of the width; wake {'treated' if treated else 'untreated'}"
+    wake = "treated" if treated else "untreated"
+    measured = f"{MM(width)} = {PERCENT(share, reading.digits)} of the width; wake {wake}"
     if reading.beyond:
         excess_mm = (share - ctx["share"]) * sheet.get("dimensions.width") * 1000
         scale = 0.5 if treated else 1.0

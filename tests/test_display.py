@@ -57,3 +57,16 @@ def test_the_actionable_test_is_written_once():
              for number, line in enumerate(path.read_text(encoding="utf-8").splitlines(), 1)
              if STATUS_PAIR.search(line)]
     assert not found, "use Finding.actionable or aeroreview.rules.actionable(status): " + ", ".join(found)
+
+
+@pytest.mark.parametrize("value, limit, measured, margin", [
+    (0.0252, 0.025, "2.52 %", "+0.02 %"),  # read at one decimal it would be "2.5 %" against "<= 2.5 %"
+    (0.02500004, 0.025, "2.5000 %", "+0.0000 %"),  # at most three more decimals
+    (0.0410, 0.025, "4.1 %", "+1.6 %"),  # plainly past: as many decimals as asked
+    (0.0240, 0.025, "2.4 %", "-0.1 %"),  # inside: as asked
+])
+def test_a_value_past_its_limit_never_reads_as_the_limit(value, limit, measured, margin):
+    """A warning on '2.5 % against <= 2.5 %' reads as a false alarm; the reading shows the digits that
+    tell them apart (arithmetic: 2.52 - 2.5 = 0.02)."""
+    shown = display.Reading(value, display.PERCENT, at_most=limit, places=1, limit_places=1).shown()
+    assert (shown["measured"], shown["limit"], shown["margin"]) == (measured, "<= 2.5 %", margin)

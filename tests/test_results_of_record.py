@@ -115,3 +115,43 @@ def test_the_demo_track_record_compares_the_results_of_record():
     (pair,) = pairs([review_sheet(s, Settings()) for s in fleet.sheets])
     assert (pair.kind, pair.parent_cd, pair.child_cd) == ("cfd", 0.301, 0.232)
     assert pair.measured == pytest.approx(-69.0)
+
+
+def _two_sweeps(marked: str):
+    """Tessel r2 with a tunnel sweep whose drag rises 30 % over 10 deg and a CFD sweep that rises 8 %
+    (the stability.yaw-drag-rise examples), ``marked`` being the result of record."""
+    from test_rule_examples import sheet_with
+
+    steep = "[{yaw: 0 deg, cd: 0.2320}, {yaw: 10 deg, cd: 0.3016}, {yaw: -10 deg, cd: 0.3016}]"
+    mild = "[{yaw: 0 deg, cd: 0.2320}, {yaw: 10 deg, cd: 0.2506}, {yaw: -10 deg, cd: 0.2506}]"
+    result = "{{kind: {kind}, label: {kind} sweep, speed: 140 km/h, cd: 0.232, cl_front: 0.02, cl_rear: 0.04, " \
+             "of_record: {mark}, yaw_sweep: {sweep}}}"
+    return sheet_with("{results: [" + result.format(kind="tunnel", mark=str(marked == "tunnel").lower(), sweep=steep)
+                      + ", " + result.format(kind="cfd", mark=str(marked == "cfd").lower(), sweep=mild) + "]}")
+
+
+@pytest.mark.parametrize("marked, status", [("cfd", "pass"), ("tunnel", "warning")])
+def test_the_yaw_rules_and_the_figure_read_the_sweep_of_record(marked, status):
+    """Before, the yaw rules averaged every result's sweep (a 19 % rise that neither result has) and the
+    figure drew the first; the thresholds (15 % and 25 %) are the rule's, rules/crosswind.py."""
+    from aeroreview.digest import yaw_sweep
+
+    review = review_sheet(_two_sweeps(marked), Settings())
+    rise = next(f for f in review.findings if f.rule.id == "stability.yaw-drag-rise")
+    assert rise.status == status, rise.verdict.measured
+    assert yaw_sweep(review, 100 / 3.6).label == f"{marked} sweep"
+
+
+def test_a_yaw_table_with_moments_feeds_the_yawing_moment_rule(tessel, cli):
+    """Side force and yawing moment columns reach the sheet (they were dropped before, so the
+    stability.yaw-moment rule could never read a merged sweep). A rise of cym of 0.05 from 0 to 10 deg
+    is inside the usual 0.04-0.06 (the rule's source, rules/crosswind.py): it passes."""
+    sheet = tessel / "r1.yaml"  # no sweep of its own
+    table = tessel / "cfd" / "yaw.csv"
+    table.write_text("# invented tunnel sweep\nyaw,cd,cs,cmz\n-10,0.262,-0.40,-0.050\n0,0.236,0.0,0.0\n"
+                     "5,0.241,0.20,0.025\n10,0.263,0.40,0.050\n", encoding="utf-8")
+    assert cli("results", "yaw", table, "--speed", "140", "--sheet", sheet).code == 0
+    points = load_sheet(sheet).results[-1].yaw_sweep
+    assert [(p.cs, p.cym) for p in points] == [(-0.40, -0.050), (0.0, 0.0), (0.20, 0.025), (0.40, 0.050)]
+    moment = finding(sheet, "stability.yaw-moment")
+    assert moment.status == "pass" and "0.050" in moment.verdict.measured, moment.verdict.measured

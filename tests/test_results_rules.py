@@ -103,3 +103,16 @@ def test_convergence_rule_boundaries(history, expected):
 
 def test_convergence_rule_not_assessed_without_a_history():
     assert status("data.convergence", with_features(results=[result(0.232)])) == "not assessed"
+
+
+def test_two_cfd_results_as_far_from_the_tunnel_do_not_crash_the_correlation_check():
+    """Equal gaps used to make max() compare two results ("'>' not supported"); 0.232 and 0.232 against
+    0.250 is 18 counts, over the 10-count threshold (rules/data.py)."""
+    from aeroreview.review import review_sheet
+    from aeroreview.settings import Settings
+    from test_rule_examples import sheet_with
+
+    sheet = sheet_with("{results: [{kind: cfd, label: rans a, cd: 0.232}, {kind: cfd, label: rans b, cd: 0.232}, "
+                       "{kind: tunnel, label: full scale, cd: 0.250}]}")
+    found = next(f for f in review_sheet(sheet, Settings()).findings if f.rule.id == "data.cfd-tunnel-correlation")
+    assert found.status == "warning" and found.verdict.measured.startswith("|Cd CFD - Cd tunnel| = 18.0 counts")

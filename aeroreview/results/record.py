@@ -17,6 +17,7 @@ from pathlib import Path
 from aeroreview.results.history import Settled
 from aeroreview.results.surface import Forces
 from aeroreview.results.yaw import YawSweep
+from aeroreview.sections import YAW_POINT
 
 
 def sha256(path: str | Path) -> str:
@@ -65,8 +66,8 @@ def yaw_entry(sweep: YawSweep, name: str, digest: str, kind: str) -> dict:
     entry = {"kind": kind, "label": f"yaw sweep {Path(name).name}", "cd": _coefficient(sweep.values["cd"][zero])}
     if sweep.speed is not None:
         entry["speed"] = f"{sweep.speed * 3.6:.4g} km/h"
-    entry["yaw_sweep"] = [{"yaw": f"{float(a):g} deg", **{k: _coefficient(v[i]) for k, v in sweep.values.items()
-                                                          if k in ("cd", "cl_front", "cl_rear")}}
+    kept = [key for key in sweep.values if key in YAW_POINT.names]  # what a sheet's yaw point holds
+    entry["yaw_sweep"] = [{"yaw": f"{float(a):g} deg", **{key: _coefficient(sweep.values[key][i]) for key in kept}}
                           for i, a in enumerate(sweep.yaw)]
     entry["files"] = [{"file": name, "sha256": digest, "role": "yaw"}]
     return entry

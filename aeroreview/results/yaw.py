@@ -16,6 +16,9 @@ from aeroreview.calc.wind import J1252_WIND_SPEED, wind_averaged_cd
 from aeroreview.results.history import COEFFICIENT_NAMES, refuse, find_columns, read_table
 
 YAW_NAMES = ("yaw", "yawangle", "yawdeg", "beta", "psi")
+# Moment coefficients a yaw table may carry beside the forces; cym and cpm are the names of SAE J1594's yawing
+# and pitching moment coefficients (from memory), cmz / cmy their body-axis spellings (common practice).
+MOMENT_NAMES = {"cym": ("cym", "cmz", "cyawmoment"), "cpm": ("cpm", "cmy", "cpitchmoment")}
 YAW_LIMIT = 90.0  # deg: beyond it the car drives backwards into the wind (as the sheet's yaw bounds)
 CD_BOUNDS = (0.05, 2.0)  # as a sheet result's cd (aeroreview.sheet)
 
@@ -24,7 +27,7 @@ CD_BOUNDS = (0.05, 2.0)  # as a sheet result's cd (aeroreview.sheet)
 class YawSweep:
     file: str
     yaw: np.ndarray  # deg, sorted
-    values: dict[str, np.ndarray]  # cd, cl, cl_front, cl_rear, cs as found
+    values: dict[str, np.ndarray]  # cd, cl, cl_front, cl_rear, cs, cym, cpm as found
     cd_wind_averaged: float | None = None
     speed: float | None = None  # m/s
     wind: float = J1252_WIND_SPEED  # m/s
@@ -34,7 +37,7 @@ def read_yaw(path: str | Path, columns: dict[str, str] | None = None, speed: flo
              wind: float = J1252_WIND_SPEED) -> YawSweep:
     """Read a yaw table; with ``speed`` [m/s], add the J1252 wind-averaged Cd in a ``wind`` [m/s]."""
     table = read_table(path)
-    chosen = find_columns(table, {"yaw": YAW_NAMES, **COEFFICIENT_NAMES}, dict(columns or {}))
+    chosen = find_columns(table, {"yaw": YAW_NAMES, **COEFFICIENT_NAMES, **MOMENT_NAMES}, dict(columns or {}))
     for needed in ("yaw", "cd"):
         if needed not in chosen:
             raise refuse(table.file, f"no {needed} column (columns: {', '.join(table.header)})",

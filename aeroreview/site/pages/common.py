@@ -12,6 +12,7 @@ import json
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from aeroreview.display import PERCENT
 from aeroreview.memo import Memo
 from aeroreview.review import Review
 from aeroreview.settings import Settings
@@ -69,7 +70,7 @@ def revision_path(review: Review) -> str:
 
 def score_text(review: Review) -> str:
     score = "not assessed" if review.score is None else f"{review.score:.0f}"
-    return f"{score} ({review.coverage * 100:.0f} %)"
+    return f"{score} ({PERCENT(review.coverage)})"
 
 
 def recoverable_text(review: Review) -> str:

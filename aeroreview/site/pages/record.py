@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from aeroreview.display import PERCENT
 from aeroreview.site.pages.common import Output, esc, link
 from aeroreview.track_record import Pair, summary
 
@@ -18,7 +19,7 @@ def summary_text(found: list[Pair]) -> str:
         return "No pair of revisions has same-kind measured results yet: no track record."
     return (f"{s['pairs']} pair(s): mean absolute error {s['mean_abs_error_counts']:.1f} counts, bias "
             f"{s['bias_counts']:+.1f} counts (predicted mid minus measured), "
-            f"{s['within_range_share'] * 100:.0f} % of the measured changes inside the predicted range.")
+            f"{PERCENT(s['within_range_share'])} of the measured changes inside the predicted range.")
 
 
 def write(out: Output, found: list[Pair]) -> None:

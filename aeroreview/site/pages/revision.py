@@ -7,6 +7,7 @@ from urllib.parse import quote
 
 from aeroreview import catalogue
 from aeroreview.digest import RevisionFigures
+from aeroreview.display import PERCENT
 from aeroreview.paths import contained_file
 from aeroreview.review import ADDITIVITY_NOTE, Finding, Review, failing
 from aeroreview.rules import ZONES
@@ -54,16 +55,16 @@ def key_numbers(review: Review) -> list[str]:
             ("Frontal area A", f"{n.area:.2f} m²"), ("Drag area CdA", f"{n.cda:.3f} m²"),
             (f"Drag at {ref:.0f} km/h", f"{n.drag_N:.0f} N"),
             (f"Drag power at {ref:.0f} km/h", f"{n.drag_power_kW:.1f} kW")]
-    for lift, label in ((n.lift_reference, f"{ref:.0f} km/h"), (n.lift_top_speed, "top speed")):
+    for lift, label in ((n.lift_reference, "the reference speed"), (n.lift_top_speed, "top speed")):
         if lift:
             rows.append((f"Lift per axle at {label} ({lift.speed_km_h:.0f} km/h)",
-                         f"front {lift.front_kg:+.0f} kg ({lift.front_share * 100:+.1f} % of its static load), "
-                         f"rear {lift.rear_kg:+.0f} kg ({lift.rear_share * 100:+.1f} %)"))
+                         f"front {lift.front_kg:+.0f} kg ({PERCENT(lift.front_share, 1, signed=True)} of its static "
+                         f"load), rear {lift.rear_kg:+.0f} kg ({PERCENT(lift.rear_share, 1, signed=True)})"))
     if not n.lift_reference:
         rows.append(("Lift per axle", "not available: no result with cl_front and cl_rear"))
     rows += [(f"Energy on {n.cycle}", f"{n.energy_kWh_per_100km:.2f} kWh per 100 km "
                                          f"({'fuel' if n.litres_per_100km else 'battery'}); "
-                                         f"aerodynamic share {n.aero_share * 100:.0f} %")]
+                                         f"aerodynamic share {PERCENT(n.aero_share)}")]
     if n.litres_per_100km:
         rows.append(("Fuel on the cycle", f"{n.litres_per_100km:.2f} L per 100 km"))
     if n.range_km:
@@ -107,7 +108,7 @@ def estimate_rows(review: Review) -> list[tuple[str, str]]:
     e, after = review.estimate, review.estimate.cd_after
     raised = f", raised for {', '.join(e.raised_for)}" if e.raised_for else ""
     confidence = "no data-quality check assessed" if review.confidence is None else \
-        f"{review.confidence * 100:.0f} % of the data-quality checks pass"
+        f"{PERCENT(review.confidence)} of the data-quality checks pass"
     return [("Recoverable drag, combined", f"{e.mid:.1f} counts (low {e.low:.1f}, high {e.high:.1f})"),
             ("Cd after the fixes, combined", f"{after['mid']:.3f} ({after['low']:.3f}-{after['high']:.3f})"),
             ("Floor of the class", f"Cd {e.floor_cd:.3f}{raised}"),
@@ -124,7 +125,7 @@ def findings(review: Review) -> list[str]:
             continue
         zone_score = review.zones[zone]
         shown = "not assessed" if zone_score.score is None else f"{zone_score.score:.0f}"
-        out += [f"### {title}", "", f"Zone score {shown} (coverage {zone_score.coverage * 100:.0f} %).", "",
+        out += [f"### {title}", "", f"Zone score {shown} (coverage {PERCENT(zone_score.coverage)}).", "",
                 "| Status | Rule | Finding | Measured (limit) | Estimate | Consequence of the fix |",
                 "|---|---|---|---|---|---|"]
         items.sort(key=lambda f: (-status_rank(f.status), f.rule.id))
