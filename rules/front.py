@@ -79,7 +79,7 @@ def upper_edge_radius(sheet, ctx):
     largest single drag sources. Drag falls steeply with the radius until the flow stays
     attached, and hardly changes after that.
 
-    How to fix: round the bumper-to-hood transition until r / sqrt(A) reaches about 0.05;
+    How to fix: round the bumper-to-hood transition until r / sqrt(A) reaches {comfortable_ratio};
     on a van a 150 mm radius is typical. Where styling needs a crisp line, use a chamfer of
     similar extent.
 
@@ -107,7 +107,7 @@ def corner_radius(sheet, ctx):
     Why it matters: air turning around a sharp front corner separates along the side; the
     separated layer thickens the wake of the front wheel and the side, and grows with yaw.
 
-    How to fix: round the bumper corners to at least r / sqrt(A) = 0.05, or shape a
+    How to fix: round the bumper corners to at least r / sqrt(A) = {comfortable_ratio}, or shape a
     corner chamfer with a rounded leading edge; an air curtain can help where the corner
     must stay tight.
 
