@@ -8,15 +8,14 @@ User mistakes print ``file:line:column: what is wrong; hint`` and never a traceb
 from __future__ import annotations
 
 import argparse
-import contextlib
-import gc
 import json
 import re
 import sys
 import textwrap
 from pathlib import Path
 
-from aeroreview import __version__, baseline, calc_cli, calibrate_cli, report, results_cli, review, schema, template
+from aeroreview import (__version__, baseline, calc_cli, calibrate_cli, collector, report, results_cli, review,
+                        schema, template)
 from aeroreview.catalogue import VEHICLE_CLASSES
 from aeroreview.names import suggest
 from aeroreview.problems import InputError, UsageError, clean
@@ -60,25 +59,12 @@ def _write_output(text: str, output: str | None, protected: frozenset[Path]) -> 
     print(f"wrote {output}", file=sys.stderr)
 
 
-@contextlib.contextmanager
-def _collector_paused():
-    """Pause the cyclic garbage collector while a report is built.
-
-    A report is a tree of some 1,300 small dicts and lists a sheet and makes no reference
-    cycles, but each full collection would walk the whole fleet, its reviews and the report
-    so far again: about half the report's cost at 1000 sheets (bench/check.py). Reference
-    counting still frees what is dropped; the collector resumes when the report is written.
-    """
-    enabled = gc.isenabled()
-    gc.disable()
-    try:
-        yield
-    finally:
-        if enabled:
-            gc.enable()
-
-
 def _cmd_check(args) -> int:
+    with collector.young_collections_only():  # the fleet and its reviews live until the end
+        return _check(args)
+
+
+def _check(args) -> int:
     settings = load_settings(args.config)
     fail_on = args.fail_on or settings.fail_on
     fleet = load_fleet(args.paths or [settings.sheets_path])
@@ -90,7 +76,7 @@ def _cmd_check(args) -> int:
     if args.format == "text":
         for warning in notices:
             print(warning, file=sys.stderr)
-    with _collector_paused():
+    with collector.paused():
         text, fails = _report(args, reviews, problems + notices, fail_on, before)
     _write_output(text, args.output, fleet.files)
     for problem in problems:
@@ -103,7 +89,7 @@ def _cmd_check(args) -> int:
 def _report(args, reviews, problems, fail_on: str, before) -> tuple[str, bool]:
     """The report in ``args.format``, and whether any finding fails the gate.
 
-    Its data are dropped on return, before the collector resumes (see :func:`_collector_paused`).
+    Its data are dropped on return, before the collector resumes (see :func:`aeroreview.collector.paused`).
     """
     data = report.as_json(reviews, problems, fail_on)
     if before is not None:

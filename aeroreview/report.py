@@ -36,7 +36,8 @@ def finding_json(finding: Finding) -> dict:
         "missing": list(verdict.missing), "waiver": finding.waiver and finding.waiver.as_dict(),
         "calibration": rounded(finding.calibration),
         # Sources beyond the rule's own (listed once under "rules"): the team's data when a calibration re-costed it.
-        "added_sources": [s.as_dict() for s in finding.sources if s not in rule.sources],
+        "added_sources": [s.as_dict() for s in finding.sources if s not in rule.sources]
+        if finding.calibration else [],
     }
 
 
@@ -56,13 +57,17 @@ _KEPT = frozenset((str, int, bool, type(None)))  # leaves rounded() returns unch
 
 
 def rounded(value):
-    """Floats cut to 10 significant digits, so a converted 130 km/h reads 130.0, not 130.00000000000003."""
+    """Floats cut to 10 significant digits, so a converted 130 km/h reads 130.0, not 130.00000000000003.
+
+    Plain leaves and plain floats inside a mapping or list are handled in place, without a call."""
     if isinstance(value, float):
         return float(f"{value:.10g}")
     if isinstance(value, dict):
-        return {key: item if type(item) in _KEPT else rounded(item) for key, item in value.items()}
+        return {key: item if type(item) in _KEPT else float(f"{item:.10g}") if type(item) is float else rounded(item)
+                for key, item in value.items()}
     if isinstance(value, (list, tuple)):
-        return [item if type(item) in _KEPT else rounded(item) for item in value]
+        return [item if type(item) in _KEPT else float(f"{item:.10g}") if type(item) is float else rounded(item)
+                for item in value]
     return value
 
 

@@ -28,6 +28,7 @@ from mkdocs.exceptions import PluginError
 from mkdocs.plugins import BasePlugin, CombinedEvent, event_priority
 from mkdocs.structure.files import File, InclusionLevel
 
+from aeroreview.collector import young_collections_only
 from aeroreview.problems import InputError
 from aeroreview.review import review_sheet
 from aeroreview.settings import load_settings
@@ -87,9 +88,10 @@ class AeroreviewPlugin(BasePlugin[AeroreviewConfig]):
         except InputError as error:
             raise PluginError("the review sheets have errors:\n" + "\n".join(str(p) for p in error.problems)) from None
         self.progress("sheets", len(fleet.sheets))
-        reviews = [review_sheet(sheet, self.settings) for sheet in fleet.sheets]
         cache = FigureCache(Path(config.config_file_path).parent / CACHE_FOLDER)
-        self.site = generate(reviews, self.settings, cache)
+        with young_collections_only():  # the reviews and pages live on: no full collection walks them again
+            reviews = [review_sheet(sheet, self.settings) for sheet in fleet.sheets]
+            self.site = generate(reviews, self.settings, cache)
         self.cache = cache
         os.environ.setdefault("SOURCE_DATE_EPOCH", str(fleet_epoch(reviews)))  # mkdocs reads it for sitemap dates
         if self.command == "build":
