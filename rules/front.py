@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from aeroreview.display import DEG, MM, PERCENT, RATIO, Reading
+from aeroreview.display import DEG, MM, RATIO, Reading
 from aeroreview.rules import COMMON, HUCHO, Effect, Source, Threshold, major, minor, passed, rule
-from aeroreview.rules.body import BOX_CLASSES, body_scale, front_face_height
+from aeroreview.rules.body import BOX_CLASSES, body_scale, dimension_share, front_face_height
 
 EDGE_SOURCE = Source("Hucho 1998, front-edge rounding on box-like bodies (chapter not checked): drag falls steeply "
                      "with the edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled, "
@@ -253,9 +253,7 @@ def stagnation_height(sheet, ctx):
         fails (advisory): {features: {front.stagnation_height: 600 mm}}
         passes: {features: {front.stagnation_height: 450 mm}}
     """
-    height = sheet.get("front.stagnation_height")
-    share = Reading(height / sheet.get("dimensions.height"), PERCENT, at_most=ctx["share"])
-    measured = f"{PERCENT(share.value)} of the height ({MM(height)})"
+    share, measured = dimension_share(sheet, "front.stagnation_height", "dimensions.height", at_most=ctx["share"])
     if share.beyond:
         return minor("the nose is high: more air is sent under the car", **share.shown(measured),
                      counts=ctx.effect().counts(), cl_front=-0.02)
