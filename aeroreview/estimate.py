@@ -230,10 +230,12 @@ def score(claims, frame: Frame, regions) -> float:
     """100 x (1 - drag share) x (1 - lift share): cost only, never severity.
 
     The drag share is the combined mid saving over what is ``within_reach`` of ``regions``.
+    Rounded once, to the tenth a score is read to, so that every page, chart and report that
+    rounds it further shows the same number (24.5 must not read 25 in one place and 24 in another).
     """
     reach = within_reach(frame, regions)
     drag = combined(claims, frame) / reach if reach > 0 else 0.0
-    return 100.0 * (1.0 - min(1.0, drag)) * (1.0 - lift_share(claims, frame))
+    return round(100.0 * (1.0 - min(1.0, drag)) * (1.0 - lift_share(claims, frame)), 1)
 
 
 @dataclass(frozen=True)

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import math
 
+from aeroreview.display import MM, PERCENT, Reading
+
 FRONTAL_AREA_FACTOR = 0.84  # A / (width x height) of a passenger car, about 0.81-0.87 (from memory, Hucho 1998,
 # chapter not checked)
 BOX_CLASSES = ("van", "suv", "pickup", "crossover")  # upright fronts and square backs (common practice)
@@ -28,3 +30,11 @@ def front_face_height(sheet) -> float | None:
     if sheet.get("vehicle.class") in BOX_CLASSES or sheet.get("front.hood_edge_height") is None:
         return None
     return sheet.get("front.hood_edge_height") - (sheet.get("front.air_dam_clearance") or 0.0)
+
+
+def dimension_share(sheet, key: str, dimension: str, **limits) -> tuple[Reading, str]:
+    """A length ``key`` as a share of a body ``dimension`` (a :class:`Reading` with ``limits``), and the
+    finding's measured text: "5.2 % of the length (259 mm)"."""
+    value = sheet.get(key)
+    share = Reading(value / sheet.get(dimension), PERCENT, **limits)
+    return share, f"{PERCENT(share.value, share.digits)} of the {dimension.split('.', 1)[1]} ({MM(value)})"

@@ -6,8 +6,9 @@ reattaches before the tail; a short or falling deck lengthens the wake and lifts
 
 from __future__ import annotations
 
-from aeroreview.display import DEG, MM, PERCENT, Reading
+from aeroreview.display import DEG, Reading
 from aeroreview.rules import Effect, Source, Threshold, minor, passed, rule
+from aeroreview.rules.body import dimension_share
 from aeroreview.rules.rear import slanted_rear
 
 DECKLID_SOURCE = Source("notchback decklids: a longer, higher decklid lets the backlight flow reattach and shortens the "
@@ -41,9 +42,8 @@ def decklid_length(sheet, ctx):
         fails (advisory): {features: {rear.decklid_length: 150 mm}}
         passes: {features: {rear.decklid_length: 300 mm}}
     """
-    length = sheet.get("rear.decklid_length")
-    share = Reading(length / sheet.get("dimensions.length"), PERCENT, at_least=ctx["share"], places=1)
-    measured = f"{PERCENT(share.value, share.digits)} of the length ({MM(length)})"
+    share, measured = dimension_share(sheet, "rear.decklid_length", "dimensions.length", at_least=ctx["share"],
+                                      places=1)
     if share.beyond:
         return minor("the decklid is short: the backlight flow has no deck to reattach to", **share.shown(measured),
                      counts=ctx.effect().counts(), cl_rear=-0.02)

@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from aeroreview.display import DEG, MM, PERCENT, RATIO, Reading
+from aeroreview.display import DEG, MM, RATIO, Reading
 from aeroreview.rules import COMMON, HUCHO, Effect, Source, Threshold, major, minor, passed, rule
-from aeroreview.rules.body import BOX_CLASSES, body_scale, front_face_height
+from aeroreview.rules.body import BOX_CLASSES, body_scale, dimension_share, front_face_height
 
 EDGE_SOURCE = Source("Hucho 1998, front-edge rounding on box-like bodies (chapter not checked): drag falls steeply "
                      "with the edge radius until the flow stays attached, near r / sqrt(A) = 0.04-0.05; recalled, "
@@ -79,7 +79,7 @@ def upper_edge_radius(sheet, ctx):
     largest single drag sources. Drag falls steeply with the radius until the flow stays
     attached, and hardly changes after that.
 
-    How to fix: round the bumper-to-hood transition until r / sqrt(A) reaches about 0.05;
+    How to fix: round the bumper-to-hood transition until r / sqrt(A) reaches {comfortable_ratio};
     on a van a 150 mm radius is typical. Where styling needs a crisp line, use a chamfer of
     similar extent.
 
@@ -107,7 +107,7 @@ def corner_radius(sheet, ctx):
     Why it matters: air turning around a sharp front corner separates along the side; the
     separated layer thickens the wake of the front wheel and the side, and grows with yaw.
 
-    How to fix: round the bumper corners to at least r / sqrt(A) = 0.05, or shape a
+    How to fix: round the bumper corners to at least r / sqrt(A) = {comfortable_ratio}, or shape a
     corner chamfer with a rounded leading edge; an air curtain can help where the corner
     must stay tight.
 
@@ -253,9 +253,7 @@ def stagnation_height(sheet, ctx):
         fails (advisory): {features: {front.stagnation_height: 600 mm}}
         passes: {features: {front.stagnation_height: 450 mm}}
     """
-    height = sheet.get("front.stagnation_height")
-    share = Reading(height / sheet.get("dimensions.height"), PERCENT, at_most=ctx["share"])
-    measured = f"{PERCENT(share.value)} of the height ({MM(height)})"
+    share, measured = dimension_share(sheet, "front.stagnation_height", "dimensions.height", at_most=ctx["share"])
     if share.beyond:
         return minor("the nose is high: more air is sent under the car", **share.shown(measured),
                      counts=ctx.effect().counts(), cl_front=-0.02)

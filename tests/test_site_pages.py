@@ -81,3 +81,14 @@ def test_revision_and_diff_pages_draw_the_solver_files(demo):
     assert sum(float(r[3]) for r in rows) == pytest.approx(total, abs=0.2)  # each row rounded to 0.1
     for name in re.findall(r"\(\.\./\.\./figures/([^)]+\.svg)\)", diff):
         assert f"figures/{name}" in demo.files
+
+
+def test_the_page_and_its_zone_chart_show_one_score(demo):
+    """The Quillon r1 scores 24.5 (invented demo): the page header read 'Score 25' from the raw score
+    while the zone chart, fed a score rounded to a tenth, said 'overall 24'. Rounded once in the
+    engine, both show Python's round-half-even of 24.5, 24."""
+    page = demo.files["fleet/quillon/r1.md"]
+    header = re.search(r"\*\*Score (\d+) \(", page)
+    chart = demo.files["figures/" + re.search(r"figures/(zones-[0-9a-f]+\.svg)", page).group(1)]
+    overall = re.search(r"overall (\d+) with coverage", chart.decode() if isinstance(chart, bytes) else chart)
+    assert header and overall and header.group(1) == overall.group(1) == "24"
