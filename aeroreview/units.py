@@ -1,8 +1,10 @@
 """Units at the boundary: parse what users type, hand SI floats to the core.
 
-One pint registry for the whole program. Users write ``"27 deg"``, ``"180 mm"``,
-``"130 km/h"``, ``"52 %"`` or a bare number in the unit the context names; the core only
-ever sees SI floats (m, kg, s, rad, W, J, and plain fractions).
+One pint registry for the whole program, built the first time a conversion outside
+:data:`aeroreview.conversions.KNOWN` is needed (importing pint and building it costs about
+0.3 s). Users write ``"27 deg"``, ``"180 mm"``, ``"130 km/h"``, ``"52 %"`` or a bare number in
+the unit the context names; the core only ever sees SI floats (m, kg, s, rad, W, J, and plain
+fractions).
 
 pint treats angles and percentages as dimensionless, so ``"27 %"`` would pass for an
 angle; :func:`to_si` therefore also compares the *root unit* (radian or none), which keeps
@@ -14,12 +16,28 @@ from __future__ import annotations
 import math
 import re
 from functools import lru_cache
+from typing import TYPE_CHECKING
 
-import pint
-
+from aeroreview.conversions import KNOWN
 from aeroreview.problems import echo
 
-UNITS = pint.UnitRegistry()
+if TYPE_CHECKING:
+    import pint
+
+
+@lru_cache(maxsize=1)
+def registry():
+    """pint's unit registry, imported and built on first use."""
+    import pint
+
+    return pint.UnitRegistry()
+
+
+def __getattr__(name: str):
+    if name == "UNITS":  # the registry itself, for callers that want pint's quantities
+        return registry()
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 _NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
 # pint's parser evaluates what it is given: "m**9**9**9" never finishes. Before pint sees a
@@ -43,12 +61,12 @@ class UnitProblem(ValueError):
 
 @lru_cache(maxsize=512)
 def _unit(text: str) -> pint.Unit:
-    return UNITS.Unit(text)
+    return registry().Unit(text)
 
 
 @lru_cache(maxsize=512)
 def _root(unit: pint.Unit) -> tuple[float, str]:
-    factor, root = UNITS.get_root_units(unit)
+    factor, root = registry().get_root_units(unit)
     return factor, str(root)
 
 
@@ -61,8 +79,8 @@ def _conversion(unit_text: str, canonical: str) -> tuple[float, float]:
             f"'{echo(unit_text)}' is not a unit of {describe_dimension(canonical)}",
             f"write it in {canonical} or a compatible unit",
         )
-    zero = UNITS.Quantity(0.0, unit).to_base_units().magnitude
-    one = UNITS.Quantity(1.0, unit).to_base_units().magnitude
+    zero = registry().Quantity(0.0, unit).to_base_units().magnitude
+    one = registry().Quantity(1.0, unit).to_base_units().magnitude
     return one - zero, zero
 
 
@@ -132,7 +150,7 @@ def to_si(value: object, canonical: str) -> float:
     if not math.isfinite(magnitude):
         raise UnitProblem("the number is not finite", "write a finite number")
     try:
-        scale, offset = _conversion(unit_text or "dimensionless", canonical or "dimensionless")
+        scale, offset = _scale_offset(unit_text, canonical)
     except UnitProblem:
         raise
     except Exception:  # noqa: BLE001 - pint's parser raises many types on odd text; all mean "not a unit"
@@ -145,8 +163,14 @@ def to_si(value: object, canonical: str) -> float:
 
 def from_si(value: float, canonical: str) -> float:
     """Convert an SI float back to ``canonical`` (for display)."""
-    scale, offset = _conversion(canonical or "dimensionless", canonical or "dimensionless")
+    scale, offset = _scale_offset(canonical, canonical)
     return (value - offset) / scale
+
+
+def _scale_offset(unit_text: str, canonical: str) -> tuple[float, float]:
+    """Scale and offset to SI: from the table of common conversions, else from pint."""
+    key = (unit_text or "dimensionless", canonical or "dimensionless")
+    return KNOWN.get(key) or _conversion(*key)
 
 
 def format_number(value: float, digits: int = 3) -> str:
