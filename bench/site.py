@@ -2,7 +2,8 @@
 
 Builds sites of 10, 50 and 200 synthetic vehicles (3 revisions each, varied from the demo
 fleet) in a temporary knowledge base: first cold (empty figure cache), then again after
-one sheet changed (the figure cache keeps every figure whose inputs did not change).
+one sheet changed (the figure cache keeps every figure whose inputs did not change): twice,
+another sheet changed each time, and the faster of the two counts, as for the floor.
 Then builds the same pages with plain MkDocs, the floor: the generated pages and figures
 written as static files, the same theme and configuration without the aeroreview plugin.
 Prints seconds, pages per second, and the cold and warm builds as ratios to that floor.
@@ -106,10 +107,13 @@ def run(vehicles: int) -> dict[str, tuple[float, float] | int]:
         make_fleet(kb, vehicles)
         build = AEROREVIEW + ["site", "build", "-o", "out"]
         times = {"cold": timed(build, kb), "pages": pages(kb / "out")}
-        changed = kb / "vehicles" / "car-000" / "r3.yaml"
-        changed.write_text(changed.read_text(encoding="utf-8").replace("vehicle.class:", "rear.spoiler_height: 30 mm\n"
-                                                                                         "  vehicle.class:"), encoding="utf-8")
-        times["warm"] = timed(build, kb)
+        warm = []
+        for vehicle in ("car-000", "car-001"):  # two rebuilds, each after one sheet changed: the faster, as for the floor
+            changed = kb / "vehicles" / vehicle / "r3.yaml"
+            changed.write_text(changed.read_text(encoding="utf-8").replace(
+                "vehicle.class:", "rear.spoiler_height: 30 mm\n  vehicle.class:"), encoding="utf-8")
+            warm.append(timed(build, kb))
+        times["warm"] = min(warm)
         plain_docs(kb)
         times["plain"] = min(timed(PLAIN, kb), timed(PLAIN, kb))  # the floor: the faster of two runs
         return times
