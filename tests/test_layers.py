@@ -23,7 +23,7 @@ ASSIGNED = {
     "aeroreview": "vocabulary",  # the package itself (only the version), not its sub-modules
     "aeroreview.catalogue": "vocabulary", "aeroreview.units": "vocabulary", "aeroreview.problems": "vocabulary",
     "aeroreview.names": "vocabulary", "aeroreview.yamldoc": "vocabulary", "aeroreview.paths": "vocabulary",
-    "aeroreview.sections": "vocabulary", "aeroreview.display": "vocabulary",
+    "aeroreview.sections": "vocabulary", "aeroreview.display": "vocabulary", "aeroreview.conversions": "vocabulary",
     "aeroreview.rules": "rules",
     "aeroreview.cli": "outputs", "aeroreview.calc_cli": "outputs", "aeroreview.__main__": "outputs",
     "aeroreview.results_cli": "outputs",
