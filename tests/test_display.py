@@ -70,3 +70,9 @@ def test_a_value_past_its_limit_never_reads_as_the_limit(value, limit, measured,
     tell them apart (arithmetic: 2.52 - 2.5 = 0.02)."""
     shown = display.Reading(value, display.PERCENT, at_most=limit, places=1, limit_places=1).shown()
     assert (shown["measured"], shown["limit"], shown["margin"]) == (measured, "<= 2.5 %", margin)
+
+
+@pytest.mark.parametrize("score, shown", [(24.5, "25"), (24.4, "24"), (0.0, "0"), (99.5, "100"), (None, "none")])
+def test_a_score_reads_as_a_whole_number_halves_up(score, shown):
+    """Halves up, as a score is read (and unlike format's half-to-even, which reads 24.5 as 24)."""
+    assert display.whole_score(score, "none") == shown

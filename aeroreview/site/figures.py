@@ -21,7 +21,7 @@ from pathlib import Path
 
 from aeroreview.site import charts, fitcharts, svgchart
 
-FIGURE_VERSION = "4"  # bump when a drawing function changes, so cached SVGs are redrawn
+FIGURE_VERSION = "5"  # bump when a drawing function changes, so cached SVGs are redrawn
 MATPLOTLIB = version("matplotlib")  # read from the package metadata: importing matplotlib costs 0.3-0.6 s
 
 # matplotlib's settings for its figures. "text.parse_math": False draws every text literally: sheet
