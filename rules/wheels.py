@@ -50,8 +50,8 @@ def rim_openness(sheet, ctx):
     openness = sheet.get("wheels.rim_openness")
     size = (sheet.get("wheels.rim_diameter") or REFERENCE_RIM) / REFERENCE_RIM
     closable = (openness - ctx["closed"]) * size ** 2
-    measured = f"{PERCENT(openness)} open"
     pumping, closed = Reading(openness, PERCENT, at_most=ctx["open"]), Reading(openness, PERCENT, at_most=ctx["closed"])
+    measured = f"{PERCENT(openness, max(pumping.digits, closed.digits))} open"
     if pumping.beyond:
         return major("the rims are open: they pump wheelhouse air into the side flow", **pumping.shown(measured),
                      counts=ctx.effect().counts(closable / 0.1))

@@ -42,7 +42,7 @@ def windshield_angle(sheet, ctx):
     angle = sheet.get("windshield.angle")
     upright = Reading(angle, DEG, at_most=ctx["upright"], places=1)
     steep = Reading(angle, DEG, at_most=ctx["steep"], places=1)
-    measured = f"{DEG(angle, 1)} from horizontal"
+    measured = f"{DEG(angle, max(upright.digits, steep.digits))} from horizontal"
     over = math.degrees(angle) - math.degrees(ctx["steep"])
     if upright.beyond:
         return major("the windshield is upright; laying it back is a large gain", **upright.shown(measured),
