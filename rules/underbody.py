@@ -139,8 +139,8 @@ def diffuser_exposed(sheet, ctx):
 @rule("underbody.pitch", "Underbody pitch (nose-up raises front lift)", "advisory",
       needs=("underbody.pitch",),
       thresholds=(Threshold("nose_up", "-0.5 deg", "deg", "pitch below which the underbody opens to the flow", COMMON),),
-      sources=(COMMON, Effect(2, 6, "{low}-{high} counts and about 0.02 more front lift per degree nose-up; from "
-                              "memory", "from memory")),
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts per degree nose-up past the limit, and about 0.02 more "
+                              "front lift per degree nose-up; from memory", "from memory")),
       sensitivity=Sensitivity("underbody.pitch", -4.0, "deg", (-2, 1), "nose_up", Source(
           "the middle of 2-6 counts per deg nose-up (pitch is positive nose-down)", "from memory")))
 def pitch(sheet, ctx):
@@ -162,7 +162,8 @@ def pitch(sheet, ctx):
     angle = sheet.get("underbody.pitch")
     shown = {"measured": DEG(angle, 1, signed=True), "limit": f">= {DEG(ctx['nose_up'], 1, signed=True)}"}
     if angle < ctx["nose_up"]:
-        return minor("the underbody is pitched nose-up", **shown, counts=ctx.effect().counts(),
+        return minor("the underbody is pitched nose-up", **shown,
+                     counts=ctx.effect().counts(math.degrees(ctx["nose_up"] - angle)),
                      cl_front=-0.02 * abs(math.degrees(angle)))
     return passed("the underbody pitch is level or nose-down", **shown)
 
