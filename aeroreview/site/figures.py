@@ -19,6 +19,7 @@ import tempfile
 from importlib.metadata import version
 from pathlib import Path
 
+from aeroreview import collector
 from aeroreview.site import charts, fitcharts, svgchart
 
 FIGURE_VERSION = "5"  # bump when a drawing function changes, so cached SVGs are redrawn
@@ -39,7 +40,8 @@ def _draw(kind: str, data) -> bytes:
         return fitcharts.DRAWERS[kind](data)
     from aeroreview.site import plots
 
-    return plots.draw(kind, data)
+    with collector.full_collections():  # matplotlib's cycles outlive the young generations
+        return plots.draw(kind, data)
 
 
 def _draw_job(job: tuple[str, object]) -> bytes:
