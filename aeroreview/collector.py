@@ -15,6 +15,7 @@ import contextlib
 import gc
 
 NEVER = 1 << 30  # young-generation collections before a full one: more than any run makes
+STARTING_THRESHOLDS = gc.get_threshold()  # the interpreter's own, before any block here changes them
 
 
 @contextlib.contextmanager
@@ -26,6 +27,22 @@ def young_collections_only():
         yield
     finally:
         gc.set_threshold(young, middle, full)
+
+
+@contextlib.contextmanager
+def full_collections():
+    """The interpreter's own collection thresholds inside a :func:`young_collections_only` block.
+
+    For drawing with matplotlib: a figure's artists form reference cycles that live long enough
+    to leave the young generations, so without full collections closed figures pile up (measured:
+    drawing and closing 200 small figures left 80 alive and 119 MB of memory, against 10 and 76 MB).
+    """
+    saved = gc.get_threshold()
+    gc.set_threshold(*STARTING_THRESHOLDS)
+    try:
+        yield
+    finally:
+        gc.set_threshold(*saved)
 
 
 @contextlib.contextmanager

@@ -100,3 +100,12 @@ class Reading:
         """A finding's ``measured``, ``limit`` and ``margin`` (``measured`` replaces the bare value)."""
         return {"measured": measured or self.unit(self.value, self.digits), "limit": self.bound,
                 "margin": self.margin if margin else None}
+
+
+def whole_score(score: float | None, missing: str = "not assessed") -> str:
+    """A 0-100 score (kept to a tenth by the engine) as it is read: a whole number, halves up.
+
+    Every page, chart and report shows a score through here, so one revision never reads 25 in
+    one place and 24 in another (format's ``.0f`` rounds a tenth of 24.5 to 24, half to even).
+    """
+    return missing if score is None else str(math.floor(score + 0.5))

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import xml.etree.ElementTree as ET
 
+from aeroreview.display import whole_score
 from aeroreview.problems import Problem, clean
 from aeroreview.review import ADDITIVITY_NOTE, UNSCORED_ZONES, Finding, Review, failing
 from aeroreview.rules import NOT_ASSESSED, ZONES, actionable
@@ -148,7 +149,7 @@ def as_text(data: dict, color: bool) -> str:
         by_zone: dict[str, list[dict]] = {}
         for finding in sheet["findings"]:
             by_zone.setdefault(finding["zone"], []).append(finding)
-        score = "-" if sheet["score"] is None else f"{sheet['score']:.0f}"
+        score = whole_score(sheet["score"], "-")
         lines.append(f"{paint(escape(sheet['vehicle']) + '@' + escape(sheet['revision']), 'bold')} {escape(sheet['file'])}  "
                      f"score {score}/100 (coverage {sheet['coverage'] * 100:.0f} %, confidence {_share(sheet['confidence'])})")
         lines.append(f"  {_estimate_line(sheet)}")
@@ -158,7 +159,7 @@ def as_text(data: dict, color: bool) -> str:
                 continue
             zone_score = sheet["zones"][zone]
             shown = "not scored" if zone in UNSCORED_ZONES else \
-                "-/100" if zone_score["score"] is None else f"{zone_score['score']:.0f}/100"
+                "-/100" if zone_score["score"] is None else f"{whole_score(zone_score['score'])}/100"
             passes = sum(f["status"] == "pass" for f in items)
             unassessed = [f["rule"] for f in items if f["status"] == NOT_ASSESSED]
             lines.append(f"  {paint(title, 'bold')} {shown} (coverage {zone_score['coverage'] * 100:.0f} %), {passes} pass")

@@ -85,8 +85,9 @@ class Effect:
     name: str = "effect"
 
     def __post_init__(self):
-        if "{low}" not in self.text and "{high}" not in self.text:
-            raise ValueError(f"effect text {self.text!r} must show its range with {{low}} and {{high}}")
+        if "{high}" not in self.text or ("{low}" not in self.text and self.low != 0):
+            raise ValueError(f"effect text {self.text!r} must show its range with {{low}} and {{high}} "
+                             "({high} alone only for a range from 0: 'up to {high}')")
         if not 0 <= self.low <= self.high:
             raise ValueError(f"effect range {self.low}-{self.high} must be 0 <= low <= high")
 
@@ -370,6 +371,10 @@ def all_rules() -> dict[str, Rule]:
 def _ordered(size: int) -> dict[str, Rule]:
     order = list(ZONES)
     return dict(sorted(REGISTRY.items(), key=lambda item: (order.index(item[1].zone), item[0])))
+
+
+COUNTS_PER_CD = 1000.0  # 1 drag count = 0.001 of a coefficient (common practice)
+PER_PERCENT = 0.01  # an effect quoted in % of a quantity is that quantity x 0.01 per % (arithmetic)
 
 
 def counts_range(low: float, high: float) -> tuple[float, float]:

@@ -11,9 +11,11 @@ COOLING_SOURCE = Source("Katz, Automotive Aerodynamics, Wiley (ISBN 978-1-119-18
                         "recalled, so not marked published)", "from memory")
 # Share of the time a closed-able inlet stays closed at motorway speed, so its surplus costs drag (from memory).
 OPEN_SHARE = {"active": 0.3, "passive": 0.7, "none": 1.0}
-INLET_EFFECT = Effect(2, 4, "about {low}-{high} counts per 0.01 m^2 of surplus inlet while open; active shutters keep "
-                      f"it closed about {100 * (1 - OPEN_SHARE['active']):.0f} % of motorway driving, passive flaps "
-                      f"about {100 * (1 - OPEN_SHARE['passive']):.0f} %; recalled, not checked", "from memory")
+OPEN_SHARE_SOURCE = Source(f"active shutters keep a surplus inlet closed about {100 * (1 - OPEN_SHARE['active']):.0f} % "
+                           f"of motorway driving, passive flaps about {100 * (1 - OPEN_SHARE['passive']):.0f} %; "
+                           "recalled, not checked", "from memory")
+INLET_EFFECT = Effect(2, 4, "about {low}-{high} counts per 0.01 m^2 of surplus inlet while open; recalled, not checked",
+                      "from memory")
 INLET_EFFECT_AREA = 0.01  # m^2: the area INLET_EFFECT is quoted per
 
 
@@ -22,7 +24,7 @@ INLET_EFFECT_AREA = 0.01  # m^2: the area INLET_EFFECT is quoted per
       thresholds=(Threshold("oversize", "125 %", "%", "inlet / required above which the surplus costs drag", COMMON),
                   Threshold("undersize", "100 %", "%", "inlet / required below which cooling is at risk", COMMON)),
       optional=("cooling.shutters", "cooling.ducts_sealed"),
-      sources=(COOLING_SOURCE, INLET_EFFECT))
+      sources=(COOLING_SOURCE, INLET_EFFECT, OPEN_SHARE_SOURCE))
 def inlet_area(sheet, ctx):
     """
     What it checks: the open area of the cooling inlets against the area the thermal team
@@ -72,17 +74,23 @@ def inlet_area(sheet, ctx):
                   limit=PERCENT.span(ctx["undersize"], ctx["oversize"]))
 
 
+ELECTRIC_INLET_SCALE = 0.6  # an electric car's cooling drag against a combustion car's (from memory)
+
+
+def _shutter_effects(scale: float, car: str, prefix: str) -> tuple[Effect, Effect]:
+    """What closing the inlets saves on ``car``: no shutters (5-20 counts on a combustion car), passive
+    flaps (2-8), recalled, not checked; ``scale`` x those for other cars. Named ``prefix`` + none, passive."""
+    return (Effect(5 * scale, 20 * scale, "active shutters save {low}-{high} counts at motorway speed when closed on "
+                   + car + "; recalled, not checked", "from memory", name=prefix + "none"),
+            Effect(2 * scale, 8 * scale, "{low}-{high} counts left by passive flaps on " + car + "; recalled, not "
+                   "checked", "from memory", name=prefix + "passive"))
+
+
 @rule("cooling.shutters", "Grille shutters", "warning",
       needs=("cooling.shutters",),
       optional=("powertrain.kind",),
-      sources=(Effect(5, 20, "active shutters save {low}-{high} counts at motorway speed when closed on a combustion "
-                      "car; recalled, not checked", "from memory", name="combustion"),
-               Effect(2, 8, "{low}-{high} counts left by passive flaps on a combustion car; recalled, not checked",
-                      "from memory", name="combustion_passive"),
-               Effect(3, 12, "{low}-{high} counts on an electric car, whose inlets are smaller; recalled, not checked",
-                      "from memory", name="electric"),
-               Effect(1.2, 4.8, "{low}-{high} counts left by passive flaps on an electric car; recalled, not checked",
-                      "from memory", name="electric_passive"),
+      sources=(*_shutter_effects(1.0, "a combustion car", ""),
+               *_shutter_effects(ELECTRIC_INLET_SCALE, "an electric car, whose inlets are smaller", "electric_"),
                Source("de Souza, Raeesi, Belzile, Caffrey and Schmitt, 'Investigation of drag reduction technologies "
                       "for light-duty vehicles...', SAE Int. J. Adv. Curr. Pract. Mobil. 1(3) (2019) 1233-1250, "
                       "doi 10.4271/2019-01-0644 (title/authors/year/venue and abstract checked on a PMC copy): active "
@@ -108,13 +116,13 @@ def shutters(sheet, ctx):
         passes: {features: {cooling.shutters: active}}
     """
     kind = sheet.get("cooling.shutters")
-    drive = "electric" if sheet.get("powertrain.kind") == "electric" else "combustion"
+    drive = "electric_" if sheet.get("powertrain.kind") == "electric" else ""
     if kind == "none":
         return major("the cooling inlets cannot be closed", measured="none", limit="active shutters",
-                     counts=ctx.effect(drive).counts())
+                     counts=ctx.effect(drive + "none").counts())
     if kind == "passive":
         return minor("passive flaps recover only part of the cooling drag", measured="passive",
-                     limit="active shutters", counts=ctx.effect(drive + "_passive").counts())
+                     limit="active shutters", counts=ctx.effect(drive + "passive").counts())
     return passed("active shutters close the inlets when cooling is not needed", measured="active")
 
 

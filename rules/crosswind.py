@@ -14,7 +14,7 @@ import numpy as np
 
 from aeroreview.calc.wind import J1252_WIND_SPEED, max_yaw, wind_averaged_cd
 from aeroreview.display import KM_H, PERCENT, Reading
-from aeroreview.rules import COMMON, Effect, Source, Threshold, major, minor, not_assessed, passed, rule
+from aeroreview.rules import COMMON, PER_PERCENT, Effect, Source, Threshold, major, minor, not_assessed, passed, rule
 from aeroreview.rules.result_quality import result_of_record
 
 YAW_SOURCE = Source("crosswind sensitivity of axle lift; from memory (Hucho 1998, crosswind, chapter not checked)",
@@ -182,7 +182,7 @@ def yaw_drag_rise(sheet, ctx):
     rise = found[1] / found[0] - 1
     measured = f"Cd {found[0]:.3f} -> {found[1]:.3f} from 0 to 10 deg ({PERCENT(rise, 1, signed=True)})"
     excess = max(0.0, found[1] - found[0] * (1 + ctx["moderate"])) * 1000
-    counts = ctx.effect().counts(excess / 100)
+    counts = ctx.effect().counts(excess * PER_PERCENT)
     steep, moderate = (Reading(rise, PERCENT, at_most=ctx[name], places=1) for name in ("steep", "moderate"))
     if steep.beyond:
         return major("drag rises steeply with yaw", **steep.shown(measured), counts=counts)

@@ -74,7 +74,7 @@ def decklid_angle(sheet, ctx):
         passes: {features: {rear.decklid_angle: 2 deg}}
     """
     angle = Reading(sheet.get("rear.decklid_angle"), DEG, at_most=ctx["falling"], places=1)
-    measured = DEG(angle.value, 1, signed=True)
+    measured = DEG(angle.value, angle.digits, signed=True)
     if angle.beyond:
         return minor("the decklid falls steeply toward the rear edge: rear lift rises", **angle.shown(measured),
                      counts=ctx.effect().counts(), cl_rear=-0.02)

@@ -6,8 +6,8 @@ import math
 
 from aeroreview.calc.references import AHMED_SOURCE, ahmed_cd, ahmed_uncertainty
 from aeroreview.display import DEG, M2, MM, PERCENT, Reading
-from aeroreview.rules import (COMMON, HUCHO, HUCHO_SOVRAN, Effect, Sensitivity, Source, Threshold, major, minor,
-                              passed, rule)
+from aeroreview.rules import (COMMON, COUNTS_PER_CD, HUCHO, HUCHO_SOVRAN, PER_PERCENT, Effect, Sensitivity, Source,
+                              Threshold, major, minor, passed, rule)
 from aeroreview.rules.body import BOX_CLASSES, body_scale
 
 AHMED = Source(AHMED_SOURCE + ", SAE Transactions 93 (1984) 473-503 (title/authors/year/venue and abstract checked "
@@ -21,7 +21,6 @@ RADIUS_SOURCE = Source("Thacker, Aubrun, Leroy and Devinant, rounded roof-to-sla
                        "as J. Wind Eng. Ind. Aerodyn. 107-108 (2012) (their Exp. Fluids paper is recalled as vol. 54, "
                        "2013); search found neither title nor abstract, so venue, volume and the 0.15 threshold are "
                        "recalled, not checked", "from memory")
-COUNTS_PER_PERCENT_OF_CD = 1000 / 100  # 1 drag count = 0.001 of Cd (common practice)
 TAPER_SOURCE = Source("Hucho 1998, boat-tailing (chapter not checked): drag falls with taper angle up to about 15 deg, "
                       "beyond which the flow separates from the taper; recalled, not checked", "from memory")
 SQUARE_BACK_ANGLE = 40.0  # deg: the Ahmed curve is published from 0 to 40 deg and flat above 35 (Ahmed et al. 1984)
@@ -45,7 +44,8 @@ def slanted_rear(sheet) -> bool:
       ),
       sources=(AHMED, BAND, RADIUS_SOURCE,
                Effect(0, 60, "a generous roof-to-backlight radius removes up to {high} % of the Ahmed-curve drag step, "
-                      "in proportion to r / sqrt(A) up to 0.15; recalled, not checked (rounded-edge Ahmed studies)",
+                      "in proportion to r / sqrt(A) up to the generous radius; recalled, not checked (rounded-edge "
+                      "Ahmed studies)",
                       "from memory", name="radius"),
                Effect(20, 60, "{low}-{high} % of the Ahmed-curve drag step (with the curve's uncertainty); production "
                       "bodies respond less than the Ahmed body; recalled, not checked", "from memory")),
@@ -97,9 +97,9 @@ def backlight_angle(sheet, ctx):
     reference = min(ahmed_cd(min(rising, degrees)), ahmed_cd(beyond))
     step, spread = float(ahmed_cd(degrees) - reference), float(ahmed_uncertainty(degrees))
     share = 1.0 if generous else (ratio / ctx["generous_radius"] if ratio else 0.0)  # a ratio below the limit
-    steadied = 1 - ctx.effect("radius").high / 100 * share  # the radius lowers the estimate too
-    counts = ctx.effect().counts(COUNTS_PER_PERCENT_OF_CD * (step - spread) * steadied,
-                                     COUNTS_PER_PERCENT_OF_CD * (step + spread) * steadied)
+    steadied = 1 - ctx.effect("radius").high * PER_PERCENT * share  # the radius lowers the estimate too
+    per_percent = COUNTS_PER_CD * PER_PERCENT * steadied  # counts per % of the Ahmed step
+    counts = ctx.effect().counts(per_percent * (step - spread), per_percent * (step + spread))
     details = {"ahmed_step": round(step, 4), "ahmed_uncertainty": spread, "radius_factor": round(steadied, 3)}
     if low <= degrees <= high:
         margin = f"{DEG(min(angle - ctx['critical_low'], ctx['critical_high'] - angle), 1)} inside the region"
@@ -119,11 +119,11 @@ def backlight_angle(sheet, ctx):
                   limit=region)
 
 
-TAPER_EFFECT = Effect(0.8, 2, "about {low}-{high} counts per degree of useful taper missing (up to 5 deg past the "
-                      "useful limit); from memory", "from memory")
+TAPER_REACH = 5.0  # deg past the useful limit where most of the taper gain is won (from memory, with TAPER_EFFECT)
+TAPER_EFFECT = Effect(0.8, 2, "about {low}-{high} counts per degree of useful taper missing (up to "
+                      f"{TAPER_REACH:g} deg past the useful limit); from memory", "from memory")
 OVER_TAPER_EFFECT = Effect(3, 12, "{low}-{high} counts for a taper steeper than the flow can follow; from memory",
                            "from memory", name="over")
-TAPER_REACH = 5.0  # deg past the useful limit where most of the taper gain is won (from memory, with TAPER_EFFECT)
 
 
 def _taper(sheet, ctx, key: str, where: str):
@@ -321,5 +321,5 @@ def base_area(sheet, ctx):
     if reading.beyond:
         excess = share - limit_share
         return minor("the base is large: its wake pressure acts on a large area", **reading.shown(measured),
-                     counts=ctx.effect().counts(1000 * excess))
+                     counts=ctx.effect().counts(COUNTS_PER_CD * excess))
     return passed("the base is compact", **reading.shown(measured, margin=False))

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from aeroreview.display import CM2, MM, PERCENT, Reading
-from aeroreview.rules import COMMON, Effect, Source, Threshold, major, minor, passed, rule
+from aeroreview.rules import COMMON, COUNTS_PER_CD, Effect, Source, Threshold, major, minor, passed, rule
 
 LARGE_MIRROR_CLASSES = ("van", "pickup")  # wide bodies and trailers need a larger field of view (common practice)
 
@@ -52,7 +52,7 @@ def mirror_area(sheet, ctx):
     if reading.beyond:
         excess = (area - allowed * frontal) / frontal  # share of A above the limit
         return major(f"the mirrors are large; they cost about {cost[0]:.0f}-{cost[1]:.0f} counts in all",
-                     **reading.shown(measured), counts=ctx.effect().counts(1000 * excess))
+                     **reading.shown(measured), counts=ctx.effect().counts(COUNTS_PER_CD * excess))
     return passed(f"mirror size is moderate (about {cost[0]:.0f}-{cost[1]:.0f} counts in all)",
                   **reading.shown(measured, margin=False))
 

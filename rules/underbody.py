@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 
-from aeroreview.display import DEG, MM, PERCENT, Reading
+from aeroreview.display import DEG, MM, PERCENT, RATIO, Reading
 from aeroreview.rules import COMMON, Effect, Sensitivity, Source, Threshold, major, minor, passed, rule
 
 DIFFUSER_SOURCE = Source("Ruhrmann and Zhang, 'Influence of diffuser angle on a bluff body in ground effect', J. "
@@ -139,8 +139,8 @@ def diffuser_exposed(sheet, ctx):
 @rule("underbody.pitch", "Underbody pitch (nose-up raises front lift)", "advisory",
       needs=("underbody.pitch",),
       thresholds=(Threshold("nose_up", "-0.5 deg", "deg", "pitch below which the underbody opens to the flow", COMMON),),
-      sources=(COMMON, Effect(2, 6, "{low}-{high} counts and about 0.02 more front lift per degree nose-up; from "
-                              "memory", "from memory")),
+      sources=(COMMON, Effect(2, 6, "{low}-{high} counts per degree nose-up past the limit, and about 0.02 more "
+                              "front lift per degree nose-up; from memory", "from memory")),
       sensitivity=Sensitivity("underbody.pitch", -4.0, "deg", (-2, 1), "nose_up", Source(
           "the middle of 2-6 counts per deg nose-up (pitch is positive nose-down)", "from memory")))
 def pitch(sheet, ctx):
@@ -162,7 +162,8 @@ def pitch(sheet, ctx):
     angle = sheet.get("underbody.pitch")
     shown = {"measured": DEG(angle, 1, signed=True), "limit": f">= {DEG(ctx['nose_up'], 1, signed=True)}"}
     if angle < ctx["nose_up"]:
-        return minor("the underbody is pitched nose-up", **shown, counts=ctx.effect().counts(),
+        return minor("the underbody is pitched nose-up", **shown,
+                     counts=ctx.effect().counts(math.degrees(ctx["nose_up"] - angle)),
                      cl_front=-0.02 * abs(math.degrees(angle)))
     return passed("the underbody pitch is level or nose-down", **shown)
 
@@ -202,17 +203,15 @@ def diffuser_area_ratio(sheet, ctx):
     height = sheet.get("dimensions.ground_clearance")
     rise = sheet.get("underbody.diffuser_length") * math.tan(sheet.get("underbody.diffuser_angle"))
     ratio = (height + rise) / height if height > 0 else float("inf")
-    measured = f"area ratio {ratio:.2f} ({MM(rise)} rise on {MM(height)} clearance)"
-    limit = f"{ctx['useful']:.1f}-{ctx['separation']:.1f}"
-    if ratio > ctx["separation"]:
-        return major("the diffuser expands the underbody flow more than it can follow", measured=measured,
-                     limit=limit, margin=f"{ratio - ctx['separation']:+.2f}", counts=ctx.effect().counts(),
-                     cl_rear=-0.03)
-    if ratio < ctx["useful"]:
-        return minor("the diffuser expands the flow too little to recover much pressure", measured=measured,
-                     limit=limit, margin=f"{ratio - ctx['useful']:+.2f}", counts=ctx.effect("low_ratio").counts(),
-                     cl_rear=-0.01)
-    return passed("the diffuser area ratio is in the useful range", measured=measured, limit=limit)
+    reading = Reading(ratio, RATIO, at_least=ctx["useful"], at_most=ctx["separation"], places=2, limit_places=1)
+    measured = f"area ratio {RATIO(ratio, reading.digits)} ({MM(rise)} rise on {MM(height)} clearance)"
+    if reading.above:
+        return major("the diffuser expands the underbody flow more than it can follow", **reading.shown(measured),
+                     counts=ctx.effect().counts(), cl_rear=-0.03)
+    if reading.below:
+        return minor("the diffuser expands the flow too little to recover much pressure", **reading.shown(measured),
+                     counts=ctx.effect("low_ratio").counts(), cl_rear=-0.01)
+    return passed("the diffuser area ratio is in the useful range", **reading.shown(measured, margin=False))
 
 
 @rule("underbody.diffuser-end-step", "Step from the diffuser end to the base", "advisory",
@@ -272,7 +271,7 @@ def nose_rake(sheet, ctx):
         passes: {features: {underbody.nose_rake: 4 deg}}
     """
     rake = Reading(sheet.get("underbody.nose_rake"), DEG, at_least=ctx["minimum"], at_most=ctx["maximum"], places=1)
-    measured = DEG(rake.value, 1, signed=True)
+    measured = DEG(rake.value, rake.digits, signed=True)
     if rake.below:
         return minor("the front underbody does not rise toward the nose: more front lift", **rake.shown(measured),
                      counts=ctx.effect().counts(), cl_front=-0.02)

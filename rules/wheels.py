@@ -14,6 +14,8 @@ WASCHLE = Source("Waschle, 'The influence of rotating wheels on vehicle aerodyna
                  "investigations', SAE 2007-01-0107 (title/author/year/venue and abstract checked on the SAE page): "
                  "several rim geometries compared, rotating and stationary", "published")
 REFERENCE_RIM = 18 * 0.0254  # m: the rim size the counts per openness were recalled for (from memory)
+RIM_EFFECT_STEP = 0.10  # the open share the rim effect is quoted per (10 %)
+TYRE_EFFECT_STEP = 10.0  # mm of section width the tyre effect is quoted per
 
 
 @rule("wheels.rim-openness", "Rim openness", "warning",
@@ -50,14 +52,14 @@ def rim_openness(sheet, ctx):
     openness = sheet.get("wheels.rim_openness")
     size = (sheet.get("wheels.rim_diameter") or REFERENCE_RIM) / REFERENCE_RIM
     closable = (openness - ctx["closed"]) * size ** 2
-    measured = f"{PERCENT(openness)} open"
     pumping, closed = Reading(openness, PERCENT, at_most=ctx["open"]), Reading(openness, PERCENT, at_most=ctx["closed"])
+    measured = f"{PERCENT(openness, max(pumping.digits, closed.digits))} open"
     if pumping.beyond:
         return major("the rims are open: they pump wheelhouse air into the side flow", **pumping.shown(measured),
-                     counts=ctx.effect().counts(closable / 0.1))
+                     counts=ctx.effect().counts(closable / RIM_EFFECT_STEP))
     if closed.beyond:
         return minor("the rims could be closed further", **closed.shown(measured, margin=False),
-                     counts=ctx.effect().counts(closable / 0.1))
+                     counts=ctx.effect().counts(closable / RIM_EFFECT_STEP))
     return passed("the rims are closed", **closed.shown(measured, margin=False))
 
 
@@ -241,7 +243,7 @@ def tyre_width(sheet, ctx):
         excess_mm = (share - ctx["share"]) * sheet.get("dimensions.width") * 1000
         scale = 0.5 if treated else 1.0
         return minor("the tyres are wide for the car: wider wheel wakes", **reading.shown(measured),
-                     counts=ctx.effect().counts(excess_mm / 10 * scale))
+                     counts=ctx.effect().counts(excess_mm / TYRE_EFFECT_STEP * scale))
     return passed("the tyre width suits the car", **reading.shown(measured, margin=False))
 
 

@@ -15,8 +15,8 @@ from aeroreview.rules import COMMON, HUCHO, Effect, Sensitivity, Source, Thresho
                   Threshold("steep", "33 deg", "deg", "inclination from horizontal above which gains remain", HUCHO)),
       sources=(Source("Hucho 1998 (chapter not checked): drag falls as the windshield is laid back to about 30 deg "
                       "from horizontal (60 deg rake), with little gain beyond; recalled, not checked", "from memory"),
-               Effect(0.7, 1.3, "{low}-{high} counts per degree above the steep limit (about 1 count per degree "
-                      "above 33 deg), from memory", "from memory")),
+               Effect(0.7, 1.3, "{low}-{high} counts per degree above the steep limit (about 1 count per degree), "
+                      "from memory", "from memory")),
       applies_to=("sedan", "fastback", "hatchback", "estate", "crossover", "suv", "sports"),
       sensitivity=Sensitivity("windshield.angle", 1.0, "deg", (30, 50), "steep", Source(
           "about 1 count per degree above 33 deg (Hucho 1998, chapter not checked, recalled)", "from memory")))
@@ -42,7 +42,7 @@ def windshield_angle(sheet, ctx):
     angle = sheet.get("windshield.angle")
     upright = Reading(angle, DEG, at_most=ctx["upright"], places=1)
     steep = Reading(angle, DEG, at_most=ctx["steep"], places=1)
-    measured = f"{DEG(angle, 1)} from horizontal"
+    measured = f"{DEG(angle, max(upright.digits, steep.digits))} from horizontal"
     over = math.degrees(angle) - math.degrees(ctx["steep"])
     if upright.beyond:
         return major("the windshield is upright; laying it back is a large gain", **upright.shown(measured),

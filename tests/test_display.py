@@ -70,3 +70,30 @@ def test_a_value_past_its_limit_never_reads_as_the_limit(value, limit, measured,
     tell them apart (arithmetic: 2.52 - 2.5 = 0.02)."""
     shown = display.Reading(value, display.PERCENT, at_most=limit, places=1, limit_places=1).shown()
     assert (shown["measured"], shown["limit"], shown["margin"]) == (measured, "<= 2.5 %", margin)
+
+
+@pytest.mark.parametrize("score, shown", [(24.5, "25"), (24.4, "24"), (0.0, "0"), (99.5, "100"), (None, "none")])
+def test_a_score_reads_as_a_whole_number_halves_up(score, shown):
+    """Halves up, as a score is read (and unlike format's half-to-even, which reads 24.5 as 24)."""
+    assert display.whole_score(score, "none") == shown
+
+
+@pytest.mark.parametrize("rule_id, fragment", [
+    ("wheels.rim-openness", "{features: {wheels.rim_openness: 35.2 %}}"),  # limit 35 %
+    ("rear.decklid-angle", "{features: {rear.decklid_angle: 8.04 deg}}"),  # limit 8 deg
+    ("windshield.angle", "{features: {windshield.angle: 33.04 deg}}"),  # limit 33 deg
+    ("underbody.nose-rake", "{features: {underbody.nose_rake: 12.04 deg}}"),  # limit 12 deg
+    ("wheels.wheelhouse-gap", "{features: {wheels.wheelhouse_gap: 50.2 mm}}"),  # limit 50 mm
+])
+def test_a_rule_that_words_its_own_measured_text_shows_the_crossing_too(rule_id, fragment):
+    """Just past the limit (each rule's default, rules/), the finding's measured value differs from
+    its limit as printed: '35.2 % open' against '<= 35 %', never '35 % open'."""
+    from aeroreview.review import review_sheet
+    from aeroreview.settings import Settings
+    from test_rule_examples import sheet_with
+
+    finding = next(f for f in review_sheet(sheet_with(fragment), Settings()).findings if f.rule.id == rule_id)
+    number = r"[-+]?\d+(?:\.\d+)?"
+    measured, limits = re.search(number, finding.verdict.measured).group(), re.findall(number, finding.verdict.limit)
+    assert finding.status != "pass" and float(measured) not in [float(x) for x in limits], \
+        (finding.verdict.measured, finding.verdict.limit)

@@ -53,7 +53,8 @@ def test_no_rule_writes_its_counts_by_hand(path):
             assert not (keyword.arg == "counts" and isinstance(keyword.value, ast.Tuple)), \
                 f"{path.name}:{call.lineno}: a literal counts tuple: {HOW}"
         if _name(call) == "counts":
-            literal = [arg for arg in call.args if isinstance(arg, ast.Constant)]
+            literal = [node for arg in call.args for node in ast.walk(arg)
+                       if isinstance(node, ast.Constant) and type(node.value) in (int, float)]
             assert not literal, f"{path.name}:{call.lineno}: a bare number scales an effect; name what it is"
 
 
@@ -67,6 +68,7 @@ def test_an_effect_shows_its_range_in_its_text():
 
 
 @pytest.mark.parametrize("text, low, high", [("2-8 counts; from memory", 2, 8),  # the range is not in the text
+                                             ("about {low} counts", 1, 9),  # half the range hidden
                                              ("{low}-{high} counts", 8, 2),  # reversed
                                              ("{low}-{high} counts", -1, 2)])  # a fix never adds drag
 def test_a_malformed_effect_is_refused(text, low, high):
@@ -104,3 +106,15 @@ def test_every_costed_finding_cites_its_effect(rule_id, fragment):
     if finding.verdict.counts:
         cited = [source.citation for source in all_rules()[rule_id].sources]
         assert any(citation.startswith("effect:") for citation in cited), f"{rule_id} costs a fix it cites no effect for"
+
+
+@pytest.mark.parametrize("pitch, counts", [("-1.5 deg", (2.0, 6.0)), ("-2.5 deg", (4.0, 12.0))])
+def test_the_pitch_effect_is_per_degree_as_its_text_and_sensitivity_say(pitch, counts):
+    """'2-6 counts per degree nose-up past the limit' (rules/underbody.py, -0.5 deg): 1 and 2 degrees
+    past give 2-6 and 4-12 counts; before, every nose-up pitch cost 2-6 whatever its size."""
+    from aeroreview.review import review_sheet
+    from aeroreview.settings import Settings
+
+    sheet = sheet_with("{features: {underbody.pitch: %s}}" % pitch)
+    finding = next(f for f in review_sheet(sheet, Settings()).findings if f.rule.id == "underbody.pitch")
+    assert finding.verdict.counts == counts

@@ -37,3 +37,17 @@ def test_study_column_text_in_the_calibration_chart_is_escaped_and_literal():
     svg = fitcharts.calibration_slopes({"slopes": [{"label": label, "fit": 1.2, "ci95": [0.4, 2.0], "library": None}]})
     texts = [t.text for t in ElementTree.fromstring(svg).iter("{http://www.w3.org/2000/svg}text")]
     assert label in texts and "library silent" in texts
+
+
+def test_the_library_marker_has_a_legend_entry_when_the_first_row_has_none():
+    """The diamonds of the library's values are named in the legend even when the first parameter
+    has no library value (the legend used to label only row 0)."""
+    from xml.etree import ElementTree
+
+    from aeroreview.site import fitcharts
+
+    rows = [{"label": "a", "fit": 1.0, "ci95": [0.5, 1.5], "library": None},
+            {"label": "b", "fit": 2.0, "ci95": [1.5, 2.5], "library": 1.8}]
+    texts = [t.text for t in ElementTree.fromstring(fitcharts.calibration_slopes({"slopes": rows}))
+             .iter("{http://www.w3.org/2000/svg}text")]
+    assert "rule library" in texts and "team data: fit and 95 % interval" in texts

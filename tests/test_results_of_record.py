@@ -148,7 +148,7 @@ def test_a_yaw_table_with_moments_feeds_the_yawing_moment_rule(tessel, cli):
     is inside the usual 0.04-0.06 (the rule's source, rules/crosswind.py): it passes."""
     sheet = tessel / "r1.yaml"  # no sweep of its own
     table = tessel / "cfd" / "yaw.csv"
-    table.write_text("# invented tunnel sweep\nyaw,cd,cs,cmz\n-10,0.262,-0.40,-0.050\n0,0.236,0.0,0.0\n"
+    table.write_text("# invented tunnel sweep\nyaw,cd,cs,cym\n-10,0.262,-0.40,-0.050\n0,0.236,0.0,0.0\n"
                      "5,0.241,0.20,0.025\n10,0.263,0.40,0.050\n", encoding="utf-8")
     assert cli("results", "yaw", table, "--speed", "140", "--sheet", sheet).code == 0
     points = load_sheet(sheet).results[-1].yaw_sweep

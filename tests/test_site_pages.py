@@ -84,11 +84,11 @@ def test_revision_and_diff_pages_draw_the_solver_files(demo):
 
 
 def test_the_page_and_its_zone_chart_show_one_score(demo):
-    """The Quillon r1 scores 24.5 (invented demo): the page header read 'Score 25' from the raw score
-    while the zone chart, fed a score rounded to a tenth, said 'overall 24'. Rounded once in the
-    engine, both show Python's round-half-even of 24.5, 24."""
+    """The Quillon r1 scores 24.53 (invented demo): the page header read 'Score 25' from the raw score
+    while the zone chart, fed the score rounded to a tenth (24.5), said 'overall 24' (format's .0f
+    rounds half to even). Kept to a tenth once and shown halves up, both read 25."""
     page = demo.files["fleet/quillon/r1.md"]
     header = re.search(r"\*\*Score (\d+) \(", page)
     chart = demo.files["figures/" + re.search(r"figures/(zones-[0-9a-f]+\.svg)", page).group(1)]
     overall = re.search(r"overall (\d+) with coverage", chart.decode() if isinstance(chart, bytes) else chart)
-    assert header and overall and header.group(1) == overall.group(1) == "24"
+    assert header and overall and header.group(1) == overall.group(1) == "25"

@@ -16,9 +16,10 @@ from aeroreview.calc.wind import J1252_WIND_SPEED, wind_averaged_cd
 from aeroreview.results.history import COEFFICIENT_NAMES, refuse, find_columns, read_table
 
 YAW_NAMES = ("yaw", "yawangle", "yawdeg", "beta", "psi")
-# Moment coefficients a yaw table may carry beside the forces; cym and cpm are the names of SAE J1594's yawing
-# and pitching moment coefficients (from memory), cmz / cmy their body-axis spellings (common practice).
-MOMENT_NAMES = {"cym": ("cym", "cmz", "cyawmoment"), "cpm": ("cpm", "cmy", "cpitchmoment")}
+# Moment coefficients a yaw table may carry beside the forces, found only by SAE J1594's names (cym, cpm;
+# from memory): a solver's cmz or cmy is usually taken about another point and on another length, so it
+# is read only when named with --columns cym=... by someone who knows it is on the sheet's reference.
+MOMENT_NAMES = {"cym": ("cym",), "cpm": ("cpm",)}
 YAW_LIMIT = 90.0  # deg: beyond it the car drives backwards into the wind (as the sheet's yaw bounds)
 CD_BOUNDS = (0.05, 2.0)  # as a sheet result's cd (aeroreview.sheet)
 

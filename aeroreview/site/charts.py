@@ -14,6 +14,7 @@ from __future__ import annotations
 import functools
 import json
 
+from aeroreview.display import whole_score
 from aeroreview.site.svgchart import Chart, fit, text_width
 
 OKABE_ITO = {"orange": "#E69F00", "sky": "#56B4E9", "green": "#009E73", "yellow": "#F0E442",
@@ -31,13 +32,13 @@ def zones(data) -> bytes:
     scores = [z["score"] if z["score"] is not None else 0 for z in data["zones"]]
     ax.barh(rows, scores, [OKABE_ITO["grey"] if z["score"] is None else OKABE_ITO["blue"] for z in data["zones"]])
     for row, score, zone in zip(rows, scores, data["zones"]):
-        text = "not assessed" if zone["score"] is None else f"{zone['score']:.0f}"
+        text = whole_score(zone["score"])
         ax.text(score, row, f"{text} (coverage {zone['coverage'] * 100:.0f} %)", size=7, dx=3)
     ax.x.low, ax.x.high, ax.x.ticks = 0, 140, [0, 20, 40, 60, 80, 100]
     ax.y.low, ax.y.high, ax.y.inverted = -0.5, len(rows) - 0.5, True
     ax.y.ticks, ax.y.labels = rows, [z["title"] for z in data["zones"]]
     ax.xlabel = "zone score [0-100]"
-    chart.title(f"Zone scores; overall {data['score']:.0f} with coverage {data['coverage'] * 100:.0f} %"
+    chart.title(f"Zone scores; overall {whole_score(data['score'])} with coverage {data['coverage'] * 100:.0f} %"
                 if data["score"] is not None else "Zone scores", over=ax)
     return chart.svg()
 

@@ -19,9 +19,10 @@ import tempfile
 from importlib.metadata import version
 from pathlib import Path
 
+from aeroreview import collector
 from aeroreview.site import charts, fitcharts, svgchart
 
-FIGURE_VERSION = "4"  # bump when a drawing function changes, so cached SVGs are redrawn
+FIGURE_VERSION = "5"  # bump when a drawing function changes, so cached SVGs are redrawn
 MATPLOTLIB = version("matplotlib")  # read from the package metadata: importing matplotlib costs 0.3-0.6 s
 
 # matplotlib's settings for its figures. "text.parse_math": False draws every text literally: sheet
@@ -39,7 +40,8 @@ def _draw(kind: str, data) -> bytes:
         return fitcharts.DRAWERS[kind](data)
     from aeroreview.site import plots
 
-    return plots.draw(kind, data)
+    with collector.full_collections():  # matplotlib's cycles outlive the young generations
+        return plots.draw(kind, data)
 
 
 def _draw_job(job: tuple[str, object]) -> bytes:

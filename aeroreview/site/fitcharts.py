@@ -64,9 +64,11 @@ def calibration_slopes(data) -> bytes:
     for i, row in enumerate(rows):
         ax.errorbar(row["fit"], i, OKABE_ITO["blue"], xerr=tuple(row["ci95"]),
                     label="team data: fit and 95 % interval" if i == 0 else None)
+    first = next((i for i, row in enumerate(rows) if row["library"] is not None), None)  # labels the legend once
     for i, row in enumerate(rows):
         if row["library"] is not None:
-            ax.scatter([row["library"]], [i], OKABE_ITO["orange"], marker="D", label="rule library" if i == 0 else None)
+            ax.scatter([row["library"]], [i], OKABE_ITO["orange"], marker="D",
+                       label="rule library" if i == first else None)
     ax.vline(0, OKABE_ITO["grey"])
     ax.y.low, ax.y.high, ax.y.inverted = -0.5, len(rows) - 0.5, True
     ax.y.ticks, ax.y.labels = list(range(len(rows))), [fit(row["label"], labels_width - 10) for row in rows]

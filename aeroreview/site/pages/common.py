@@ -12,7 +12,7 @@ import json
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from aeroreview.display import PERCENT
+from aeroreview.display import PERCENT, whole_score
 from aeroreview.memo import Memo
 from aeroreview.review import Review
 from aeroreview.settings import Settings
@@ -69,7 +69,7 @@ def revision_path(review: Review) -> str:
 
 
 def score_text(review: Review) -> str:
-    score = "not assessed" if review.score is None else f"{review.score:.0f}"
+    score = whole_score(review.score)
     return f"{score} ({PERCENT(review.coverage)})"
 
 

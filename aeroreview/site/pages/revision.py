@@ -7,7 +7,7 @@ from urllib.parse import quote
 
 from aeroreview import catalogue
 from aeroreview.digest import RevisionFigures
-from aeroreview.display import PERCENT
+from aeroreview.display import PERCENT, whole_score
 from aeroreview.paths import contained_file
 from aeroreview.review import ADDITIVITY_NOTE, Finding, Review, failing
 from aeroreview.rules import ZONES
@@ -124,7 +124,7 @@ def findings(review: Review) -> list[str]:
         if not items:
             continue
         zone_score = review.zones[zone]
-        shown = "not assessed" if zone_score.score is None else f"{zone_score.score:.0f}"
+        shown = whole_score(zone_score.score)
         out += [f"### {title}", "", f"Zone score {shown} (coverage {PERCENT(zone_score.coverage)}).", "",
                 "| Status | Rule | Finding | Measured (limit) | Estimate | Consequence of the fix |",
                 "|---|---|---|---|---|---|"]

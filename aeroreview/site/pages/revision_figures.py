@@ -9,6 +9,7 @@ from __future__ import annotations
 from dataclasses import asdict
 
 from aeroreview.digest import AhmedCurve, RevisionFigures, YawSweep
+from aeroreview.display import whole_score
 from aeroreview.results.evidence import Buildup, HistoryFigure
 from aeroreview.results.history import COUNT
 from aeroreview.review import Review
@@ -32,7 +33,7 @@ def section(out: Output, review: Review, figures: RevisionFigures) -> list[str]:
                  "score": None if review.score is None else round(review.score, 1),
                  "coverage": round(review.coverage, 3)}
     lines += [out.figure("zones", zone_data, "Zone scores: " + ", ".join(
-        f"{z['title']} {'not assessed' if z['score'] is None else round(z['score'])}" for z in zone_data["zones"]),
+        f"{z['title']} {whole_score(z['score'])}" for z in zone_data["zones"]),
         2), ""]
     drag = figures.drag
     lines += [out.figure("drag-power", {"speed_km_h": drag.speed_km_h, "drag_N": [round(d, 2) for d in drag.drag_N],

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from aeroreview.display import whole_score
 from aeroreview.review import Review
 from aeroreview.site.pages.common import Output, esc, heading, link, recoverable_text, score_text
 
@@ -27,6 +28,6 @@ def write(out: Output, vehicle_id: str, reviews: list[Review]) -> None:
             "score": [None if r.score is None else round(r.score, 1) for r in reviews],
             "recoverable": [round(r.estimate.mid, 1) for r in reviews]}
     alt = (f"Revision trends of {latest.sheet.name}: Cd " + ", ".join(f"{c:.3f}" for c in data["cd"])
-           + "; score " + ", ".join(f"{s:.0f}" if s is not None else "none" for s in data["score"]))
+           + "; score " + ", ".join(whole_score(s, "none") for s in data["score"]))
     lines += ["", "## Trends", "", out.figure("trends", data, alt, 2), ""]
     out.page(f"fleet/{vehicle_id}/index.md", "\n".join(lines))
