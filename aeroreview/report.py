@@ -22,23 +22,31 @@ def escape(text) -> str:
     return clean(text, 2000)
 
 
-def finding_json(finding: Finding) -> dict:
+def finding_json(finding: Finding, line: int) -> dict:
+    """A finding as the JSON report gives it; ``line`` is the sheet line it points at (:func:`finding_line`).
+
+    Most findings of a fleet pass or are not assessed and carry no estimate, consequences or
+    calibration: those fields are filled only when present (this runs some 60 times a sheet).
+    """
     verdict, rule = finding.verdict, finding.rule
-    estimate = None
+    estimate = consequences = calibration = None
     if finding.counts or verdict.cl_front or verdict.cl_rear:
         low, high = finding.counts or (0.0, 0.0)
-        estimate = {"cd_counts_low": low, "cd_counts_high": high,
-                    "cl_front_change": verdict.cl_front, "cl_rear_change": verdict.cl_rear}
+        estimate = rounded({"cd_counts_low": low, "cd_counts_high": high,
+                            "cl_front_change": verdict.cl_front, "cl_rear_change": verdict.cl_rear})
+    if finding.consequences:
+        consequences = rounded(finding.consequences.as_dict())
+    if finding.calibration:
+        calibration = rounded(finding.calibration)
     return {
         "rule": rule.id, "zone": rule.zone, "title": rule.title, "status": finding.status,
         "severity": finding.severity, "message": verdict.message, "measured": verdict.measured,
-        "limit": verdict.limit, "margin": verdict.margin, "estimate": rounded(estimate),
-        "consequences": rounded(finding.consequences and finding.consequences.as_dict()),
+        "limit": verdict.limit, "margin": verdict.margin, "estimate": estimate, "consequences": consequences,
         "missing": list(verdict.missing), "waiver": finding.waiver and finding.waiver.as_dict(),
-        "calibration": rounded(finding.calibration),
+        "calibration": calibration,
         # Sources beyond the rule's own (listed once under "rules"): the team's data when a calibration re-costed it.
-        "added_sources": [s.as_dict() for s in finding.sources if s not in rule.sources]
-        if finding.calibration else [],
+        "added_sources": [s.as_dict() for s in finding.sources if s not in rule.sources] if calibration else [],
+        "line": line,
     }
 
 
@@ -95,7 +103,7 @@ def review_json(review: Review, fail_on: str) -> dict:
         "ranked_fixes": [f.rule.id for f in review.ranked_fixes],
         "key_numbers": rounded(review.key_numbers.as_dict()), "assumptions": review.assumptions,
         "failing": [f.rule.id for f in gate],
-        "findings": [{**finding_json(f), "line": finding_line(sheet, f)} for f in review.findings],
+        "findings": [finding_json(f, finding_line(sheet, f)) for f in review.findings],
         "notices": [n.as_dict() for n in review.notices],
     }
 
