@@ -28,9 +28,9 @@ def ahmed_data(curve: AhmedCurve) -> dict:
 def section(out: Output, review: Review, figures: RevisionFigures) -> list[str]:
     n = review.key_numbers
     lines = ["## Figures", ""]
-    zone_data = {"zones": [{"title": ZONES[z.zone], "score": None if z.score is None else round(z.score, 1),
+    zone_data = {"zones": [{"title": ZONES[z.zone], "score": z.score,
                             "coverage": round(z.coverage, 3)} for z in review.zones.values()],
-                 "score": None if review.score is None else round(review.score, 1),
+                 "score": review.score,
                  "coverage": round(review.coverage, 3)}
     lines += [out.figure("zones", zone_data, "Zone scores: " + ", ".join(
         f"{z['title']} {whole_score(z['score'])}" for z in zone_data["zones"]),

@@ -25,7 +25,7 @@ def write(out: Output, vehicle_id: str, reviews: list[Review]) -> None:
                      f"| {recoverable_text(review)} | {changes} |")
     data = {"name": latest.sheet.name, "revisions": [r.sheet.revision for r in reviews],
             "cd": [round(r.key_numbers.cd, 4) for r in reviews],
-            "score": [None if r.score is None else round(r.score, 1) for r in reviews],
+            "score": [r.score for r in reviews],
             "recoverable": [round(r.estimate.mid, 1) for r in reviews]}
     alt = (f"Revision trends of {latest.sheet.name}: Cd " + ", ".join(f"{c:.3f}" for c in data["cd"])
            + "; score " + ", ".join(whole_score(s, "none") for s in data["score"]))
